@@ -1,0 +1,56 @@
+import { fileURLToPath } from 'node:url'
+
+const migrationsDir = fileURLToPath(new URL('./drizzle', import.meta.url))
+
+export default defineNuxtConfig({
+  compatibilityDate: '2026-11-01',
+  devtools: { enabled: false },
+  telemetry: false,
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint'],
+  css: ['@fontsource/fraunces/600.css', '@fontsource/fraunces/700.css', '@fontsource/ibm-plex-sans/400.css', '@fontsource/ibm-plex-sans/500.css', '@fontsource/ibm-plex-sans/600.css'],
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      titleTemplate: '%s · Groovewright',
+      meta: [
+        { name: 'viewport', content: 'width=device-width, initial-scale=1' },
+        { name: 'description', content: 'New wax cylinder records, blanks and personal messages, made and tested by hand.' },
+      ],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+    },
+  },
+  runtimeConfig: {
+    // Every key can be set at run time with NUXT_<KEY> (e.g. NUXT_DB_DIR, NUXT_SMTP_PORT).
+    dbDir: '.data/db',
+    migrationsDir,
+    seedDemo: 'true',
+    siteUrl: 'http://localhost:3000',
+    smtpHost: '127.0.0.1',
+    smtpPort: 2525,
+    smtpSecure: 'false',
+    smtpUser: '',
+    smtpPass: '',
+    mailFrom: 'Groovewright demo workshop <workshop@groovewright.test>',
+    mailPollMs: 2000,
+    mailMaxBackoffMs: 300_000,
+    resetTtlSeconds: 3600,
+    public: {
+      shopName: 'Groovewright demo workshop',
+    },
+  },
+  nitro: {
+    externals: {
+      // PGlite loads its WASM and data files next to its own module at run time.
+      external: ['@electric-sql/pglite'],
+    },
+  },
+  eslint: {
+    config: { stylistic: true },
+  },
+  typescript: {
+    strict: true,
+  },
+  image: {
+    provider: 'ipx',
+  },
+})

@@ -1,0 +1,89 @@
+// `npm start`: build if the sources changed, keep a session password in .data/, start the local
+// stand-ins for hosted services and the server, then print where everything is. Ctrl-C stops all.
+import { spawn, spawnSync } from 'node:child_process'
+import { randomBytes } from 'node:crypto'
+import { existsSync, mkdirSync, readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs'
+import { join } from 'node:path'
+
+const root = new URL('..', import.meta.url).pathname
+process.chdir(root)
+const port = Number(process.env.PORT ?? 3000)
+const mailSmtpPort = Number(process.env.MAIL_FAKE_SMTP_PORT ?? 2525)
+const mailHttpPort = Number(process.env.MAIL_FAKE_HTTP_PORT ?? 8025)
+const siteUrl = process.env.NUXT_SITE_URL ?? `http://localhost:${port}`
+
+function newestMtime(path) {
+  if (!existsSync(path)) return 0
+  const stat = statSync(path)
+  if (!stat.isDirectory()) return stat.mtimeMs
+  return Math.max(stat.mtimeMs, ...readdirSync(path).map(name => newestMtime(join(path, name))))
+}
+
+const sources = ['app', 'server', 'shared', 'content', 'public', 'drizzle', 'nuxt.config.ts', 'tailwind.config.ts', 'package-lock.json']
+const built = existsSync('.output/nitro.json') ? statSync('.output/nitro.json').mtimeMs : 0
+if (Math.max(...sources.map(newestMtime)) > built) {
+  console.log('Building the app (first start or changed sources)…')
+  const result = spawnSync('npx', ['nuxt', 'build'], { stdio: 'inherit' })
+  if (result.status !== 0) process.exit(result.status ?? 1)
+}
+
+mkdirSync('.data', { recursive: true })
+let sessionPassword = process.env.NUXT_SESSION_PASSWORD
+if (!sessionPassword) {
+  const file = '.data/session-password'
+  if (!existsSync(file)) writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 })
+  sessionPassword = readFileSync(file, 'utf8').trim()
+}
+
+const children = []
+function run(name, args, env = {}) {
+  const child = spawn(process.execPath, args, { stdio: ['ignore', 'inherit', 'inherit'], env: { ...process.env, ...env } })
+  child.on('exit', (code, signal) => {
+    if (!stopping) {
+      console.error(`[${name}] stopped (${signal ?? code}); stopping everything.`)
+      stop(1)
+    }
+  })
+  children.push(child)
+  return child
+}
+
+let stopping = false
+function stop(code = 0) {
+  if (stopping) return
+  stopping = true
+  for (const child of children) child.kill('SIGTERM')
+  setTimeout(() => process.exit(code), 1500).unref()
+  Promise.all(children.map(child => new Promise(resolve => child.exitCode !== null ? resolve() : child.on('exit', resolve))))
+    .then(() => process.exit(code))
+}
+process.on('SIGINT', () => stop(0))
+process.on('SIGTERM', () => stop(0))
+
+run('mail', ['--import', 'tsx', 'fakes/mail/server.ts'], { MAIL_FAKE_SMTP_PORT: String(mailSmtpPort), MAIL_FAKE_HTTP_PORT: String(mailHttpPort) })
+run('server', ['.output/server/index.mjs'], {
+  PORT: String(port),
+  HOST: process.env.HOST ?? '127.0.0.1',
+  NUXT_SESSION_PASSWORD: sessionPassword,
+  NUXT_SITE_URL: siteUrl,
+  NUXT_SMTP_PORT: String(mailSmtpPort),
+})
+
+const deadline = Date.now() + 120_000
+while (Date.now() < deadline && !stopping) {
+  try {
+    const response = await fetch(`http://127.0.0.1:${port}/api/health`)
+    if (response.ok) break
+  }
+  catch { /* not up yet */ }
+  await new Promise(resolve => setTimeout(resolve, 300))
+}
+
+const { demoAccounts } = await import('../shared/utils/demoAccounts.ts').catch(() => ({ demoAccounts: null }))
+console.log(`
+Groovewright is running.
+  Shop:          ${siteUrl}
+  Mail inbox:    http://127.0.0.1:${mailHttpPort}/  (every e-mail the shop sends lands here)
+  Demo sign-ins:`)
+for (const account of demoAccounts ?? []) console.log(`    ${account.role.padEnd(10)} ${account.email.padEnd(30)} ${account.password}`)
+console.log('\nPress Ctrl-C to stop.')

@@ -1,0 +1,35 @@
+// Opens the database (and migrates it) as the server starts, seeds the demo when asked, and runs the
+// mail outbox loop. Nitro does not await plugins, so routes still go through the shared useDB() promise.
+export default defineNitroPlugin((nitroApp) => {
+  const config = useRuntimeConfig()
+  let timer: ReturnType<typeof setTimeout> | undefined
+  let stopped = false
+
+  const loop = async () => {
+    try {
+      await deliverDueMail()
+    }
+    catch (error) {
+      console.error('[mail] outbox pass failed:', error instanceof Error ? error.message : error)
+    }
+    if (!stopped) timer = setTimeout(loop, Number(config.mailPollMs))
+  }
+
+  const starting = (async () => {
+    const db = await useDB()
+    if (String(config.seedDemo) !== 'false') await seedIfEmpty(db)
+    await requeueInterruptedMail()
+    if (!stopped) timer = setTimeout(loop, 200)
+  })()
+  trackStartup(starting)
+  starting.catch((error) => {
+    console.error('[db] start-up failed:', error)
+  })
+
+  nitroApp.hooks.hook('close', async () => {
+    stopped = true
+    if (timer) clearTimeout(timer)
+    await starting.catch(() => undefined)
+    await closeDB()
+  })
+})

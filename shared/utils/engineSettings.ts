@@ -1,0 +1,213 @@
+import { z } from 'zod'
+import { cylinderFormatTable, standardBlankDimensions, standardCylinderRpm } from './cylinder'
+import { lengthField } from './length'
+
+/*
+ * The shop's settings for the cylinder engine, stored as JSON under the key `engine`.
+ * Units: lengths in inches (fractions may be typed), temperatures as named, weights in grams,
+ * money in integer minor units of `prices.currency`. Every key has a default, so
+ * `engineSettingsSchema.parse({})` is a complete, working set and a stored partial set is filled in.
+ */
+
+const positiveNumber = (name: string) => z.number({ error: `${name} must be a number` }).positive(`${name} must be more than 0`)
+const nonNegativeNumber = (name: string) => z.number({ error: `${name} must be a number` }).min(0, `${name} cannot be negative`)
+const minorUnits = (name: string) => z.number({ error: `${name} must be a number` }).int(`${name} must be whole minor units (cents)`).min(0, `${name} cannot be negative`)
+
+const uniqueIds = (rows: readonly { id: string }[]) => new Set(rows.map(row => row.id)).size === rows.length
+
+const formatSettingsSchema = (recordableLengthIn: number) => z.object({
+  recordableLengthIn: lengthField('recordableLengthIn', { positive: true }).default(recordableLengthIn),
+})
+
+const speechSettingsSchema = z.object({
+  /** About 150 words a minute: from memory. */
+  wordsPerMinute: positiveNumber('wordsPerMinute').default(150),
+  /** Silent groove before the first word, and after the last, on every message. */
+  leadInSeconds: nonNegativeNumber('leadInSeconds').default(4),
+  runOutSeconds: nonNegativeNumber('runOutSeconds').default(4),
+  /** A message within this last share of the capacity is "tight". */
+  tightMargin: z.number().min(0).max(0.5, 'tightMargin is a share of the capacity, at most 0.5').default(0.1),
+})
+
+const reamingSettingsSchema = z.object({
+  /** About 1/16 in of seat travel per reaming: common practice, no source. */
+  perReamingIn: lengthField('perReamingIn', { positive: true }).default(1 / 16),
+  /** Reamings are done in sets of four, then the fit is checked: common practice, no source. */
+  setSize: z.number().int('setSize must be a whole number').min(1).max(20).default(4),
+  /** Finished overhang about 7/16 in: common practice, no source. */
+  targetOverhangIn: lengthField('targetOverhangIn', { allowNegative: true }).default(7 / 16),
+})
+
+const shavingSettingsSchema = z.object({
+  /** 45° of the in-feed wheel feeds the cutter 0.003 in: common practice, no source. */
+  infeedPer45DegreesIn: lengthField('infeedPer45DegreesIn', { positive: true }).default(0.003),
+  /** Deepest cut per pass about 0.003 in on the radius: collectors' forum practice. */
+  maxCutPerPassIn: lengthField('maxCutPerPassIn', { positive: true }).default(0.003),
+  /** The shop's own floor: below it a blank is scrapped rather than shaved again. */
+  minimumDiameterIn: lengthField('minimumDiameterIn', { positive: true }).default(2.1),
+  /** Radial depth taken off to give one fresh surface. */
+  depthPerSurfaceIn: lengthField('depthPerSurfaceIn', { positive: true }).default(0.003),
+})
+
+const waxFormulaSchema = z.object({
+  id: z.string().min(1),
+  label: z.string().min(1),
+  /** Volumetric thermal expansion coefficient, per kelvin. */
+  volumetricExpansionPerK: positiveNumber('volumetricExpansionPerK'),
+})
+
+const fitSettingsSchema = z.object({
+  /** Fit is judged at about 75 °F: common practice, no source. */
+  referenceTemperatureF: z.number().min(32).max(120).default(75),
+  /** Bore used when none is given: outside diameter less two walls of the standard blank. */
+  boreDiameterIn: lengthField('boreDiameterIn', { positive: true })
+    .default(standardBlankDimensions.outsideDiameterIn - 2 * standardBlankDimensions.wallIn),
+  taper: z.object({
+    /** Change of diameter per foot of length. About 3/8 in per foot: from memory, UNVERIFIED. */
+    perFootIn: lengthField('taper.perFootIn', { positive: true }).default(3 / 8),
+    /** Stays true until the shop has measured its own mandrel; shown beside every result that uses it. */
+    unverified: z.boolean().default(true),
+  }).prefault({}),
+  /** Engineering handbook tables (volumetric coefficients; linear ≈ a third). */
+  waxFormulas: z.array(waxFormulaSchema).min(1).refine(uniqueIds, 'wax formula ids must be unique').default([
+    { id: 'stearic_acid', label: 'Stearic acid', volumetricExpansionPerK: 810e-6 },
+    { id: 'paraffin', label: 'Paraffin', volumetricExpansionPerK: 590e-6 },
+  ]),
+})
+
+const heatSettingsSchema = z.object({
+  /** Forecast high (°C) at the destination from which a parcel is shipped only with care. A shop choice. */
+  cautionHighC: z.number().default(27),
+  /** Forecast high (°C) from which a parcel is held back. A shop choice. */
+  holdHighC: z.number().default(32),
+  /** Both thresholds drop by this much for every day in transit beyond the first. */
+  stricterPerTransitDayC: nonNegativeNumber('stricterPerTransitDayC').default(1),
+}).refine(heat => heat.holdHighC >= heat.cautionHighC, { message: 'holdHighC must not be below cautionHighC', path: ['holdHighC'] })
+
+const dimensionsSchema = z.object({
+  lengthIn: positiveNumber('lengthIn'),
+  widthIn: positiveNumber('widthIn'),
+  heightIn: positiveNumber('heightIn'),
+})
+
+const tubeSchema = z.object({
+  id: z.string().min(1),
+  label: z.string().min(1),
+  insideDiameterIn: positiveNumber('insideDiameterIn'),
+  insideLengthIn: positiveNumber('insideLengthIn'),
+  outsideDiameterIn: positiveNumber('outsideDiameterIn'),
+  outsideLengthIn: positiveNumber('outsideLengthIn'),
+  weightG: nonNegativeNumber('weightG'),
+})
+
+const boxSchema = z.object({
+  id: z.string().min(1),
+  label: z.string().min(1),
+  inside: dimensionsSchema,
+  /** Board thickness; the outside is the inside plus two walls each way. */
+  wallIn: nonNegativeNumber('wallIn'),
+  weightG: nonNegativeNumber('weightG'),
+})
+
+const box = (id: string, lengthIn: number, widthIn: number, heightIn: number, weightG: number) => ({
+  id,
+  label: `${lengthIn} × ${widthIn} × ${heightIn} in`,
+  inside: { lengthIn, widthIn, heightIn },
+  wallIn: 0.2,
+  weightG,
+})
+
+const packingSettingsSchema = z.object({
+  /** At least 2 in on every side: carrier packing guidance. */
+  cushioningIn: z.number().min(2, 'cushioningIn must be at least 2 in (carrier packing guidance)').default(2),
+  /** Double-box fragile items: carrier packing guidance. */
+  doubleBoxFragile: z.boolean().default(true),
+  /** Cubic inches per pound for dimensional weight (139 is the usual US carrier figure; set your carrier's). */
+  dimensionalDivisorIn3PerLb: positiveNumber('dimensionalDivisorIn3PerLb').default(139),
+  /** A cylinder as it leaves the bench; an estimate, weigh your own. */
+  cylinderWeightG: nonNegativeNumber('cylinderWeightG').default(70),
+  /** Cushioning and filler per parcel. */
+  fillerWeightG: nonNegativeNumber('fillerWeightG').default(150),
+  /** Most cylinders one parcel takes; also how shipping is counted. */
+  cylindersPerParcel: z.number().int().min(1).max(48).default(6),
+  tubes: z.array(tubeSchema).min(1).refine(uniqueIds, 'tube ids must be unique').default([
+    { id: 'tube-standard', label: 'Padded tube for a standard cylinder', insideDiameterIn: 2.375, insideLengthIn: 4.5, outsideDiameterIn: 2.75, outsideLengthIn: 4.875, weightG: 35 },
+  ]),
+  boxes: z.array(boxSchema).min(1).refine(uniqueIds, 'box ids must be unique').default([
+    box('box-4x4x6', 6, 4, 4, 70),
+    box('box-6x6x6', 6, 6, 6, 110),
+    box('box-8x6x6', 8, 6, 6, 130),
+    box('box-8x8x8', 8, 8, 8, 200),
+    box('box-10x8x6', 10, 8, 6, 190),
+    box('box-10x10x10', 10, 10, 10, 310),
+    box('box-12x10x10', 12, 10, 10, 360),
+    box('box-12x12x12', 12, 12, 12, 450),
+    box('box-14x14x12', 14, 14, 12, 560),
+    box('box-16x16x14', 16, 16, 14, 720),
+    box('box-18x18x16', 18, 18, 16, 900),
+  ]),
+})
+
+const shippingZoneSchema = z.object({
+  id: z.string().min(1),
+  label: z.string().min(1),
+  firstParcelMinor: minorUnits('firstParcelMinor'),
+  additionalParcelMinor: minorUnits('additionalParcelMinor'),
+})
+
+const taxRegionSchema = z.object({
+  id: z.string().min(1),
+  label: z.string().min(1),
+  /** 825 = 8.25 %. */
+  rateBasisPoints: z.number().int('rateBasisPoints must be whole basis points').min(0).max(10_000),
+  taxShipping: z.boolean(),
+})
+
+const priceSettingsSchema = z.object({
+  /** ISO 4217 code; amounts below are in its minor unit. */
+  currency: z.string().regex(/^[A-Z]{3}$/, 'currency must be an ISO 4217 code such as USD').default('USD'),
+  blankMinor: z.object({
+    two_minute: minorUnits('blankMinor.two_minute').default(1800),
+    four_minute: minorUnits('blankMinor.four_minute').default(2400),
+  }).prefault({}),
+  customMessage: z.object({
+    baseMinor: minorUnits('customMessage.baseMinor').default(6500),
+    /** Spoken seconds the base price covers. */
+    includedSeconds: nonNegativeNumber('customMessage.includedSeconds').default(60),
+    /** For each started 30 s beyond the included length. */
+    perExtra30sMinor: minorUnits('customMessage.perExtra30sMinor').default(800),
+    fourMinuteSurchargeMinor: minorUnits('customMessage.fourMinuteSurchargeMinor').default(1500),
+    rushMinor: minorUnits('customMessage.rushMinor').default(2500),
+  }).prefault({}),
+  shippingZones: z.array(shippingZoneSchema).min(1).refine(uniqueIds, 'shipping zone ids must be unique').default([
+    { id: 'domestic', label: 'Domestic', firstParcelMinor: 1200, additionalParcelMinor: 900 },
+    { id: 'north_america', label: 'Canada and Mexico', firstParcelMinor: 2800, additionalParcelMinor: 2200 },
+    { id: 'international', label: 'Rest of the world', firstParcelMinor: 4500, additionalParcelMinor: 3800 },
+  ]),
+  taxRegions: z.array(taxRegionSchema).min(1).refine(uniqueIds, 'tax region ids must be unique').default([
+    { id: 'no_tax', label: 'No sales tax collected', rateBasisPoints: 0, taxShipping: false },
+    { id: 'home_state', label: 'Home state', rateBasisPoints: 825, taxShipping: true },
+  ]),
+})
+
+export const engineSettingsSchema = z.object({
+  formats: z.object({
+    two_minute: formatSettingsSchema(cylinderFormatTable.two_minute.defaultRecordableLengthIn).prefault({}),
+    four_minute: formatSettingsSchema(cylinderFormatTable.four_minute.defaultRecordableLengthIn).prefault({}),
+  }).prefault({}),
+  standardRpm: positiveNumber('standardRpm').default(standardCylinderRpm),
+  speech: speechSettingsSchema.prefault({}),
+  reaming: reamingSettingsSchema.prefault({}),
+  shaving: shavingSettingsSchema.prefault({}),
+  fit: fitSettingsSchema.prefault({}),
+  heat: heatSettingsSchema.prefault({}),
+  packing: packingSettingsSchema.prefault({}),
+  prices: priceSettingsSchema.prefault({}),
+})
+
+export type EngineSettings = z.output<typeof engineSettingsSchema>
+export type EngineSettingsInput = z.input<typeof engineSettingsSchema>
+export type PackingBox = EngineSettings['packing']['boxes'][number]
+export type PackingTube = EngineSettings['packing']['tubes'][number]
+
+export const defaultEngineSettings: EngineSettings = engineSettingsSchema.parse({})

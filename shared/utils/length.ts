@@ -1,0 +1,197 @@
+import Fraction from 'fraction.js'
+import { z } from 'zod'
+
+/** 1 in = 25.4 mm exactly (NIST). */
+export const MILLIMETRES_PER_INCH = 25.4
+
+/** The finest fraction the trade's rules are marked in. */
+export const INCH_FRACTION_DENOMINATOR = 64
+
+const LENGTH_HINT = 'expected inches like 7/16, 1 3/16, 0.4375 or millimetres like 11.1 mm'
+
+export class LengthParseError extends Error {
+  readonly input: string
+
+  constructor(input: string, reason: string) {
+    super(`"${input}" is not a length: ${reason}`)
+    this.name = 'LengthParseError'
+    this.input = input
+  }
+}
+
+export interface LengthParseOptions {
+  /** Signed readings (e.g. a position either side of a mark) may be negative; sizes may not. */
+  allowNegative?: boolean
+}
+
+type LengthUnit = 'in' | 'mm' | 'cm'
+
+const UNIT_ALIASES: Record<string, LengthUnit> = {
+  '"': 'in',
+  '″': 'in',
+  '”': 'in',
+  'in': 'in',
+  'in.': 'in',
+  'inch': 'in',
+  'inches': 'in',
+  'mm': 'mm',
+  'millimetre': 'mm',
+  'millimetres': 'mm',
+  'millimeter': 'mm',
+  'millimeters': 'mm',
+  'cm': 'cm',
+  'centimetre': 'cm',
+  'centimetres': 'cm',
+  'centimeter': 'cm',
+  'centimeters': 'cm',
+}
+
+const INCHES_PER_UNIT: Record<LengthUnit, Fraction> = {
+  in: new Fraction(1),
+  mm: new Fraction(10, 254),
+  cm: new Fraction(100, 254),
+}
+
+// Mixed number ("1 3/16", "1-3/16"), plain fraction ("7/16") or decimal ("0.4375", ".4375", "2").
+const MIXED = /^(\d+)(?:\s+|\s*-\s*)(\d+)\s*\/\s*(\d+)$/
+const FRACTION = /^(\d+)\s*\/\s*(\d+)$/
+const DECIMAL = /^(\d+(?:\.\d*)?|\.\d+)$/
+
+function splitUnit(input: string, text: string): { quantity: string, unit: LengthUnit } {
+  const match = /^(.*?)\s*(["″”]|[a-z]+\.?)$/i.exec(text)
+  if (!match) return { quantity: text, unit: 'in' }
+  const written = match[2] ?? ''
+  const unit = UNIT_ALIASES[written.toLowerCase()]
+  if (unit) return { quantity: match[1] ?? '', unit }
+  // A number followed by a word we don't know is a unit problem, not a number problem.
+  if (/\d\s*$/.test(match[1] ?? '')) throw new LengthParseError(input, `unknown unit "${written}"; use in, mm or cm`)
+  return { quantity: text, unit: 'in' }
+}
+
+function parseQuantity(input: string, quantity: string): Fraction {
+  const mixed = MIXED.exec(quantity)
+  if (mixed) {
+    const [, whole = '', numerator = '', denominator = ''] = mixed
+    if (BigInt(denominator) === 0n) throw new LengthParseError(input, 'division by zero')
+    const part = new Fraction(BigInt(numerator), BigInt(denominator))
+    if (part.gte(1)) throw new LengthParseError(input, `the fraction in a mixed number must be less than 1 (${numerator}/${denominator})`)
+    return part.add(BigInt(whole))
+  }
+  const fraction = FRACTION.exec(quantity)
+  if (fraction) {
+    const [, numerator = '', denominator = ''] = fraction
+    if (BigInt(denominator) === 0n) throw new LengthParseError(input, 'division by zero')
+    return new Fraction(BigInt(numerator), BigInt(denominator))
+  }
+  if (DECIMAL.test(quantity)) return new Fraction(quantity)
+  throw new LengthParseError(input, LENGTH_HINT)
+}
+
+/**
+ * Exact value of a typed length, in inches, as a fraction. Inches are assumed when no unit is given.
+ * Accepts `7/16`, `1 3/16`, `1-3/16`, `0.4375`, `.4375`, `2.187"`, `2.187 in`, `11.1 mm`, `3 cm`.
+ */
+export function parseLengthFraction(input: string | number, options: LengthParseOptions = {}): Fraction {
+  if (typeof input === 'number') {
+    if (!Number.isFinite(input)) throw new LengthParseError(String(input), 'not a finite number')
+    if (input < 0 && !options.allowNegative) throw new LengthParseError(String(input), 'a length cannot be negative here')
+    return new Fraction(input)
+  }
+  const text = input.trim()
+  if (text === '') throw new LengthParseError(input, `nothing was typed; ${LENGTH_HINT}`)
+  let body = text
+  let negative = false
+  if (/^[-−]/.test(body)) {
+    negative = true
+    body = body.slice(1).trim()
+  }
+  else if (body.startsWith('+')) {
+    body = body.slice(1).trim()
+  }
+  if (negative && !options.allowNegative) throw new LengthParseError(input, 'a length cannot be negative here')
+  const { quantity, unit } = splitUnit(input, body)
+  const inches = parseQuantity(input, quantity.trim()).mul(INCHES_PER_UNIT[unit])
+  return negative ? inches.neg() : inches
+}
+
+/** A typed length in inches (see `parseLengthFraction` for what is accepted). */
+export function parseLength(input: string | number, options: LengthParseOptions = {}): number {
+  // A number is already inches; going through a fraction could only blur it.
+  if (typeof input === 'number') {
+    parseLengthFraction(input, options)
+    return input
+  }
+  return parseLengthFraction(input, options).valueOf()
+}
+
+export function inchesToMillimetres(inches: number): number {
+  return inches * MILLIMETRES_PER_INCH
+}
+
+export function millimetresToInches(millimetres: number): number {
+  return millimetres / MILLIMETRES_PER_INCH
+}
+
+/** Inches as a decimal, three places by default: `1.188`. */
+export function formatInches(inches: number, places = 3): string {
+  return inches.toFixed(places)
+}
+
+/** Millimetres as a decimal, two places by default: `30.16`. */
+export function formatMillimetres(inches: number, places = 2): string {
+  return inchesToMillimetres(inches).toFixed(places)
+}
+
+/** The nearest 1/64 in, reduced, the way a rule is read: `1 3/16`, `7/16`, `2`, `0`. */
+export function formatInchFraction(inches: number): string {
+  const sixtyFourths = Math.round(inches * INCH_FRACTION_DENOMINATOR)
+  return new Fraction(sixtyFourths, INCH_FRACTION_DENOMINATOR).toFraction(true)
+}
+
+/** Whether `inches` is exactly a multiple of 1/64 in (so its fraction is not an approximation). */
+export function isWholeSixtyFourth(inches: number): boolean {
+  // Scaling by a power of two is exact in floating point, so this test is too.
+  return Number.isInteger(inches * INCH_FRACTION_DENOMINATOR)
+}
+
+/**
+ * A length as the workshop shows it: decimal inches, the rule fraction, and millimetres beside.
+ * `1.188 in (1 3/16 in) · 30.16 mm`; the fraction gets a `≈` when it is rounded to the nearest 1/64.
+ */
+export function formatLengthLabel(inches: number): string {
+  const approx = isWholeSixtyFourth(inches) ? '' : '≈ '
+  return `${formatInches(inches)} in (${approx}${formatInchFraction(inches)} in) · ${formatMillimetres(inches)} mm`
+}
+
+export interface LengthFieldOptions extends LengthParseOptions {
+  /** Reject zero as well as negatives (diameters, lengths of groove). */
+  positive?: boolean
+}
+
+/**
+ * A zod field that takes what a person types (or a number) and gives inches.
+ * Every issue names the field, so a 400 can point at it.
+ */
+export function lengthField(name: string, options: LengthFieldOptions = {}) {
+  return z
+    .union([z.string(), z.number()], {
+      error: issue => issue.input === undefined
+        ? `${name} is required`
+        : `${name} must be a length such as 7/16, 1 3/16, 0.4375 or 11.1 mm`,
+    })
+    .transform((value, ctx) => {
+      try {
+        const inches = parseLength(value, options)
+        if (options.positive && inches <= 0) {
+          ctx.addIssue({ code: 'custom', message: `${name} must be more than 0 in` })
+          return z.NEVER
+        }
+        return inches
+      }
+      catch (error) {
+        if (!(error instanceof LengthParseError)) throw error
+        ctx.addIssue({ code: 'custom', message: `${name}: ${error.message}` })
+        return z.NEVER
+      }
+    })
+}
