@@ -111,9 +111,14 @@ export async function startMailFake(options: MailFakeOptions = {}) {
     http.listen(httpPort, '127.0.0.1', () => resolve())
   })
 
+  const boundPort = (server: { address(): unknown }, fallback: number) => {
+    const address = server.address()
+    return typeof address === 'object' && address && 'port' in address ? Number(address.port) : fallback
+  }
+
   return {
-    smtpPort,
-    httpPort,
+    smtpPort: boundPort((smtp as unknown as { server: { address(): unknown } }).server, smtpPort),
+    httpPort: boundPort(http, httpPort),
     list,
     async close() {
       await new Promise<void>(resolve => smtp.close(() => resolve()))

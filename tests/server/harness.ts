@@ -1,0 +1,105 @@
+import { mkdtempSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { setup, url } from '@nuxt/test-utils/e2e'
+import { startMailFake } from '../../fakes/mail/server'
+
+export const rootDir = fileURLToPath(new URL('../..', import.meta.url))
+
+export type MailFake = Awaited<ReturnType<typeof startMailFake>>
+
+/**
+ * Starts the mail fake in this process on free ports, then the built server (`npm run build` first)
+ * with an in-memory database and fast mail retries. Call at the top level of a test file.
+ */
+export async function useTestServer(env: Record<string, string> = {}) {
+  const mailDir = mkdtempSync(join(tmpdir(), 'gw-mail-'))
+  const mail = { fake: await startMailFake({ smtpPort: 0, httpPort: 0, dir: mailDir, quiet: true }), dir: mailDir }
+  await setup({
+    rootDir,
+    build: false,
+    server: true,
+    browser: false,
+    setupTimeout: 120_000,
+    nuxtConfig: { nitro: { output: { dir: resolve(rootDir, '.output') } } },
+    env: {
+      NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
+      NUXT_DB_DIR: 'memory://',
+      NUXT_SMTP_PORT: String(mail.fake.smtpPort),
+      NUXT_MAIL_POLL_MS: '150',
+      NUXT_MAIL_MAX_BACKOFF_MS: '800',
+      NUXT_SEED_DEMO: 'true',
+      ...env,
+    },
+  })
+  return mail
+}
+
+export interface Answer<T = any> {
+  status: number
+  body: T
+  headers: Headers
+}
+
+/** A browser-like client: keeps its own cookies and sends this site's Origin on every request. */
+export class Client {
+  cookies = new Map<string, string>()
+
+  async request<T = any>(path: string, options: { method?: string, body?: unknown, rawBody?: string, headers?: Record<string, string>, origin?: string | null } = {}): Promise<Answer<T>> {
+    const target = url(path)
+    const headers: Record<string, string> = { accept: 'application/json', ...options.headers }
+    const origin = options.origin === undefined ? new URL(target).origin : options.origin
+    if (origin) headers.origin = origin
+    if (this.cookies.size) headers.cookie = [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+    let body: string | undefined
+    if (options.rawBody !== undefined) {
+      body = options.rawBody
+      headers['content-type'] ??= 'application/json'
+    }
+    else if (options.body !== undefined) {
+      body = JSON.stringify(options.body)
+      headers['content-type'] = 'application/json'
+    }
+    const response = await fetch(target, { method: options.method ?? (body ? 'POST' : 'GET'), headers, body, redirect: 'manual' })
+    for (const line of response.headers.getSetCookie()) {
+      const [pair] = line.split(';')
+      const [name, ...rest] = pair!.split('=')
+      const value = rest.join('=')
+      if (!value || /max-age=0|expires=thu, 01 jan 1970/i.test(line)) this.cookies.delete(name!.trim())
+      else this.cookies.set(name!.trim(), value)
+    }
+    const text = await response.text()
+    let parsed: unknown = text
+    try {
+      parsed = JSON.parse(text)
+    }
+    catch { /* not JSON */ }
+    return { status: response.status, body: parsed as T, headers: response.headers }
+  }
+
+  post<T = any>(path: string, body?: unknown, extra: { origin?: string | null, headers?: Record<string, string> } = {}) {
+    return this.request<T>(path, { method: 'POST', body: body ?? {}, ...extra })
+  }
+
+  get<T = any>(path: string) {
+    return this.request<T>(path)
+  }
+}
+
+export async function signedIn(email: string, password: string): Promise<Client> {
+  const client = new Client()
+  const answer = await client.post('/api/auth/login', { email, password })
+  if (answer.status !== 200) throw new Error(`sign-in of ${email} failed: ${answer.status} ${JSON.stringify(answer.body)}`)
+  return client
+}
+
+export async function waitFor<T>(probe: () => Promise<T | undefined | null | false>, timeoutMs = 15_000, what = 'condition'): Promise<T> {
+  const deadline = Date.now() + timeoutMs
+  while (Date.now() < deadline) {
+    const value = await probe()
+    if (value) return value
+    await new Promise(resolve => setTimeout(resolve, 100))
+  }
+  throw new Error(`timed out waiting for ${what}`)
+}
