@@ -3,11 +3,8 @@ import { fileURLToPath } from 'node:url'
 const migrationsDir = fileURLToPath(new URL('./drizzle', import.meta.url))
 
 export default defineNuxtConfig({
-  compatibilityDate: '2026-11-01',
-  devtools: { enabled: false },
-  telemetry: false,
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint'],
-  css: ['@fontsource/fraunces/600.css', '@fontsource/fraunces/700.css', '@fontsource/ibm-plex-sans/400.css', '@fontsource/ibm-plex-sans/500.css', '@fontsource/ibm-plex-sans/600.css'],
+  devtools: { enabled: false },
   app: {
     head: {
       htmlAttrs: { lang: 'en' },
@@ -19,6 +16,7 @@ export default defineNuxtConfig({
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
     },
   },
+  css: ['@fontsource/fraunces/600.css', '@fontsource/fraunces/700.css', '@fontsource/ibm-plex-sans/400.css', '@fontsource/ibm-plex-sans/500.css', '@fontsource/ibm-plex-sans/600.css'],
   runtimeConfig: {
     // Every key can be set at run time with NUXT_<KEY> (e.g. NUXT_DB_DIR, NUXT_SMTP_PORT).
     dbDir: '.data/db',
@@ -38,17 +36,22 @@ export default defineNuxtConfig({
       shopName: 'Groovewright demo workshop',
     },
   },
+  compatibilityDate: '2026-11-01',
   nitro: {
     externals: {
       // PGlite loads its WASM and data files next to its own module at run time.
       external: ['@electric-sql/pglite'],
     },
   },
-  eslint: {
-    config: { stylistic: true },
-  },
   typescript: {
     strict: true,
+  },
+  telemetry: false,
+  tailwindcss: {
+    cssPath: '~/assets/css/tailwind.css',
+  },
+  eslint: {
+    config: { stylistic: true },
   },
   image: {
     provider: 'ipx',

@@ -11,7 +11,10 @@ export function useFormErrors() {
   function take(error: unknown) {
     const body = (error as { data?: { message?: string, data?: { fields?: Record<string, string> } } })?.data
     fields.value = body?.data?.fields ?? {}
-    message.value = body?.message ?? 'Something went wrong; please try again.'
+    // When fields carry their own messages, the summary only points at them (no message read twice).
+    message.value = Object.keys(fields.value).length > 0
+      ? 'Please correct the marked fields.'
+      : body?.message ?? 'Something went wrong; please try again.'
   }
 
   return { fields, message, clear, take }

@@ -63,7 +63,3 @@ export function groovePitchMm(groovesPerInch: number): number {
   assertPositive(groovesPerInch, 'grooves per inch')
   return MILLIMETRES_PER_INCH / groovesPerInch
 }
-
-export function isCylinderFormat(value: unknown): value is CylinderFormat {
-  return typeof value === 'string' && (cylinderFormats as readonly string[]).includes(value)
-}

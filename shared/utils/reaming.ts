@@ -22,11 +22,11 @@ export type ReamingPlanStatus = 'plan' | 'at_fit' | 'past_fit'
 
 export interface ReamingPlanInput {
   overhangIn: number
-  targetIn?: number
-  perReamingIn?: number
-  setSize?: number
+  targetIn?: number | undefined
+  perReamingIn?: number | undefined
+  setSize?: number | undefined
   /** Temperature of the blank when the overhang was read, if known. */
-  benchTemperatureF?: number
+  benchTemperatureF?: number | undefined
 }
 
 export interface ReamingStep {

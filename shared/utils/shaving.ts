@@ -27,13 +27,13 @@ export interface ShavingPlanInput {
   /** Largest diameter read around the blank (the high spot). */
   highDiameterIn: number
   /** Smallest diameter read around the blank; with the high one it gives the depth to clean up. */
-  lowDiameterIn?: number
+  lowDiameterIn?: number | undefined
   /** Radial depth to clean up, when known directly (e.g. an old recording to remove). */
-  depthToCleanUpIn?: number
-  wheelDegrees?: number
-  minimumDiameterIn?: number
+  depthToCleanUpIn?: number | undefined
+  wheelDegrees?: number | undefined
+  minimumDiameterIn?: number | undefined
   /** Radial depth one fresh surface costs, for counting the surfaces left. */
-  perSurfaceIn?: number
+  perSurfaceIn?: number | undefined
 }
 
 export interface ShavingPass {
@@ -92,7 +92,7 @@ export function shavingPlan(input: ShavingPlanInput, settings: EngineSettings = 
     warnings.push(`${formatInches(infeedIn, 4)} in per pass is deeper than the ${formatInches(maxCutPerPassIn, 4)} in on the radius that collectors' forum practice advises: turn the wheel no more than ${Math.round(wheelDegreesForInfeed(maxCutPerPassIn, infeedPer45DegreesIn))}° a pass.`)
   }
   if (depthIn > SLACK && infeedIn > depthIn + SLACK) {
-    warnings.push(`One pass at ${formatInches(infeedIn, 4)} in cuts deeper than the ${formatInches(depthIn, 4)} in needed to clean up: about ${Math.ceil(wheelDegreesForInfeed(depthIn, infeedPer45DegreesIn))}° of wheel is enough and saves wax for later surfaces.`)
+    warnings.push(`One pass at ${formatInches(infeedIn, 4)} in cuts deeper than the ${formatInches(depthIn, 4)} in needed to clean up: about ${Math.ceil(wheelDegreesForInfeed(depthIn, infeedPer45DegreesIn) - 1e-6)}° of wheel is enough and saves wax for later surfaces.`)
   }
   if (diameterAfterIn < minimumDiameterIn - SLACK) {
     warnings.push(`This plan leaves the blank at ${formatInches(diameterAfterIn)} in, under the shop's minimum diameter of ${formatInches(minimumDiameterIn)} in: do not shave it; scrap or set it aside.`)

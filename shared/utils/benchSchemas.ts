@@ -1,0 +1,189 @@
+import { z } from 'zod'
+import { cylinderFormats, groovePitchMm, playingTimeMinutes, rotationFrequencyHz, standardBlankDimensions, surfaceSpeedInPerSec } from './cylinder'
+import { defaultEngineSettings } from './engineSettings'
+import type { EngineSettings } from './engineSettings'
+import { heatFitShift, heatRisk } from './heat'
+import { lengthField } from './length'
+import { messageFitForFormat } from './messageFit'
+import { reamingPlan } from './reaming'
+import { shavingPlan } from './shaving'
+
+/*
+ * Inputs of the bench calculators (query strings or JSON bodies) and the answers the routes return.
+ * Lengths accept what a maker types (7/16, 1 3/16, 11.1 mm); every issue names its field.
+ */
+
+export interface NumberInputFieldOptions {
+  min?: number
+  max?: number
+  /** Strictly more than 0. */
+  positive?: boolean
+  integer?: boolean
+}
+
+/** A number from a query string or a body; issues name the field. */
+export function numberInputField(name: string, options: NumberInputFieldOptions = {}) {
+  return z
+    .union([z.number(), z.string()], {
+      error: issue => issue.input === undefined ? `${name} is required` : `${name} must be a number`,
+    })
+    .transform((raw, ctx) => {
+      const value = typeof raw === 'number' ? raw : raw.trim() === '' ? Number.NaN : Number(raw.trim())
+      const fail = (message: string) => {
+        ctx.addIssue({ code: 'custom', message })
+        return z.NEVER
+      }
+      if (!Number.isFinite(value)) return fail(`${name} must be a number, got "${raw}"`)
+      if (options.integer && !Number.isInteger(value)) return fail(`${name} must be a whole number`)
+      if (options.positive && value <= 0) return fail(`${name} must be more than 0`)
+      if (options.min !== undefined && value < options.min) return fail(`${name} must be at least ${options.min}`)
+      if (options.max !== undefined && value > options.max) return fail(`${name} must be at most ${options.max}`)
+      return value
+    })
+}
+
+const roundTo = (value: number, places: number) => Number(value.toFixed(places))
+
+/** Longest custom-message script the fit meter and its route accept. */
+export const CUSTOM_SCRIPT_MAX_CHARS = 20_000
+
+const rpmField = numberInputField('rpm', { positive: true, max: 400 })
+
+export const playingTimeQuerySchema = z.object({
+  length: lengthField('length', { positive: true }),
+  tpi: numberInputField('tpi', { positive: true, max: 1000 }),
+  rpm: rpmField.optional(),
+  diameter: lengthField('diameter', { positive: true }).optional(),
+})
+export type PlayingTimeQuery = z.output<typeof playingTimeQuerySchema>
+
+/** Playing time and groove figures; rpm defaults to the shop's standard, diameter to the standard blank. */
+export function benchPlayingTime(query: PlayingTimeQuery, settings: EngineSettings = defaultEngineSettings) {
+  const rpm = query.rpm ?? settings.standardRpm
+  const minutes = playingTimeMinutes(query.length, query.tpi, rpm)
+  return {
+    minutes: roundTo(minutes, 4),
+    seconds: roundTo(minutes * 60, 2),
+    surfaceSpeedInPerSec: roundTo(surfaceSpeedInPerSec(query.diameter ?? standardBlankDimensions.outsideDiameterIn, rpm), 3),
+    rotationHz: roundTo(rotationFrequencyHz(rpm), 4),
+    groovePitchMm: roundTo(groovePitchMm(query.tpi), 4),
+  }
+}
+
+export const customFitBodySchema = z.object({
+  script: z
+    .string({ error: issue => issue.input === undefined ? 'script is required' : 'script must be text' })
+    .max(CUSTOM_SCRIPT_MAX_CHARS, `script must be at most ${CUSTOM_SCRIPT_MAX_CHARS} characters`),
+  format: z.enum(cylinderFormats, { error: 'format must be two_minute or four_minute' }),
+  rpm: rpmField.optional(),
+})
+export type CustomFitBody = z.output<typeof customFitBodySchema>
+
+/** `seconds` is what the message takes on the record: lead-in + speech + run-out. */
+export function benchCustomFit(body: CustomFitBody, settings: EngineSettings = defaultEngineSettings) {
+  const fit = messageFitForFormat(body.script, body.format, settings, body.rpm ?? settings.standardRpm)
+  return {
+    words: fit.words,
+    seconds: roundTo(fit.seconds, 1),
+    capacitySeconds: roundTo(fit.capacitySeconds, 1),
+    verdict: fit.verdict,
+    wordsLeft: fit.wordsLeft,
+  }
+}
+
+export const reamingQuerySchema = z.object({
+  overhang: lengthField('overhang', { allowNegative: true }),
+  target: lengthField('target', { allowNegative: true }).optional(),
+  perReaming: lengthField('perReaming', { positive: true }).optional(),
+  setSize: numberInputField('setSize', { integer: true, min: 1, max: 20 }).optional(),
+  /** Temperature of the blank when read, °F. */
+  temperatureF: numberInputField('temperatureF', { min: -40, max: 160 }).optional(),
+})
+export type ReamingQuery = z.output<typeof reamingQuerySchema>
+
+export function benchReaming(query: ReamingQuery, settings: EngineSettings = defaultEngineSettings) {
+  const plan = reamingPlan({
+    overhangIn: query.overhang,
+    targetIn: query.target,
+    perReamingIn: query.perReaming,
+    setSize: query.setSize,
+    benchTemperatureF: query.temperatureF,
+  }, settings)
+  return {
+    reamings: plan.reamings,
+    sets: plan.sets,
+    steps: plan.steps.map(step => ({ afterReamings: step.afterReamings, overhangIn: roundTo(step.overhangIn, 4) })),
+    warnings: plan.warnings,
+  }
+}
+
+export const shavingQuerySchema = z.object({
+  high: lengthField('high', { positive: true }),
+  low: lengthField('low', { positive: true }).optional(),
+  /** Radial depth to clean up, instead of low. */
+  depth: lengthField('depth').optional(),
+  wheel: numberInputField('wheel', { positive: true, max: 360 }).optional(),
+  min: lengthField('min', { positive: true }).optional(),
+  perSurface: lengthField('perSurface', { positive: true }).optional(),
+}).superRefine((query, ctx) => {
+  if (query.low === undefined && query.depth === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['low'], message: 'low (the smallest diameter read around the blank) or depth is required' })
+  }
+  if (query.low !== undefined && query.low > query.high) {
+    ctx.addIssue({ code: 'custom', path: ['low'], message: 'low must not be more than high' })
+  }
+})
+export type ShavingQuery = z.output<typeof shavingQuerySchema>
+
+export function benchShaving(query: ShavingQuery, settings: EngineSettings = defaultEngineSettings) {
+  const plan = shavingPlan({
+    highDiameterIn: query.high,
+    lowDiameterIn: query.low,
+    depthToCleanUpIn: query.depth,
+    wheelDegrees: query.wheel,
+    minimumDiameterIn: query.min,
+    perSurfaceIn: query.perSurface,
+  }, settings)
+  return {
+    infeedIn: roundTo(plan.infeedIn, 5),
+    passes: plan.passes,
+    diameterAfterIn: roundTo(plan.diameterAfterIn, 4),
+    surfacesLeft: plan.surfacesLeft,
+    steps: plan.steps.map(step => ({ pass: step.pass, diameterIn: roundTo(step.diameterIn, 4) })),
+    warnings: plan.warnings,
+  }
+}
+
+const temperatureUnitField = z.enum(['C', 'F'], { error: 'unit must be C or F' })
+
+export const heatFitQuerySchema = z.object({
+  temperature: numberInputField('temperature', { min: -40, max: 200 }),
+  unit: temperatureUnitField.default('F'),
+  wax: z.string().min(1, 'wax must name a wax formula').optional(),
+  bore: lengthField('bore', { positive: true }).optional(),
+})
+export type HeatFitQuery = z.output<typeof heatFitQuerySchema>
+
+export function benchHeatFit(query: HeatFitQuery, settings: EngineSettings = defaultEngineSettings) {
+  const shift = heatFitShift({ temperature: query.temperature, unit: query.unit, waxId: query.wax, boreDiameterIn: query.bore }, settings)
+  return {
+    referenceTemperatureF: shift.referenceTemperatureF,
+    deltaK: roundTo(shift.deltaK, 2),
+    linearExpansionPerK: shift.linearExpansionPerK,
+    boreGrowthIn: roundTo(shift.boreGrowthIn, 5),
+    extraTravelIn: roundTo(shift.extraTravelIn, 4),
+    taperUnverified: shift.taperUnverified,
+    notes: shift.notes,
+  }
+}
+
+export const heatRiskQuerySchema = z.object({
+  high: numberInputField('high', { min: -60, max: 140 }),
+  unit: temperatureUnitField.default('C'),
+  days: numberInputField('days', { integer: true, min: 0, max: 30 }),
+})
+export type HeatRiskQuery = z.output<typeof heatRiskQuerySchema>
+
+export function benchHeatRisk(query: HeatRiskQuery, settings: EngineSettings = defaultEngineSettings) {
+  return heatRisk({ forecastHigh: query.high, unit: query.unit, daysInTransit: query.days }, settings)
+}

@@ -1,0 +1,179 @@
+import { defaultEngineSettings } from './engineSettings'
+import type { EngineSettings } from './engineSettings'
+
+export type TemperatureUnit = 'C' | 'F'
+
+/** Delivery-van interiors can reach about 60 °C (shipping guidance). */
+export const PARCEL_INTERIOR_PEAK_C = 60
+
+export function fahrenheitToCelsius(fahrenheit: number): number {
+  return ((fahrenheit - 32) * 5) / 9
+}
+
+export function celsiusToFahrenheit(celsius: number): number {
+  return (celsius * 9) / 5 + 32
+}
+
+export function temperatureInCelsius(value: number, unit: TemperatureUnit): number {
+  return unit === 'C' ? value : fahrenheitToCelsius(value)
+}
+
+/** For an isotropic solid the linear coefficient is about a third of the volumetric one. */
+export function linearExpansionFromVolumetric(volumetricPerK: number): number {
+  return volumetricPerK / 3
+}
+
+/** Growth of a bore's diameter: Δd = d × α(linear) × ΔT. */
+export function boreGrowthIn(boreDiameterIn: number, linearPerK: number, deltaK: number): number {
+  return boreDiameterIn * linearPerK * deltaK
+}
+
+/**
+ * How much further a tapered bore slides along a tapered mandrel when it widens by `diameterChangeIn`:
+ * the taper is the change of diameter per foot, so per inch it is taperPerFoot ÷ 12.
+ */
+export function taperTravelIn(diameterChangeIn: number, taperPerFootIn: number): number {
+  if (!(taperPerFootIn > 0)) throw new RangeError(`taper must be more than 0 in per foot, got ${taperPerFootIn}`)
+  return diameterChangeIn / (taperPerFootIn / 12)
+}
+
+export interface HeatFitInput {
+  /** Temperature of the blank now. */
+  temperature: number
+  unit: TemperatureUnit
+  /** A wax formula from the settings; ignored when a coefficient is given. */
+  waxId?: string | undefined
+  volumetricExpansionPerK?: number | undefined
+  boreDiameterIn?: number | undefined
+}
+
+export interface HeatFitShift {
+  referenceTemperatureF: number
+  temperatureF: number
+  /** Temperature now minus the reference, in kelvin. */
+  deltaK: number
+  volumetricExpansionPerK: number
+  linearExpansionPerK: number
+  boreDiameterIn: number
+  boreGrowthIn: number
+  /** Positive: the blank sits further along the mandrel than at the reference temperature. */
+  extraTravelIn: number
+  taperPerFootIn: number
+  taperUnverified: boolean
+  notes: string[]
+}
+
+/** How far a blank at another temperature sits from where it sat when its fit was judged. */
+export function heatFitShift(input: HeatFitInput, settings: EngineSettings = defaultEngineSettings): HeatFitShift {
+  const { referenceTemperatureF, taper, waxFormulas } = settings.fit
+  let volumetricExpansionPerK = input.volumetricExpansionPerK
+  if (volumetricExpansionPerK === undefined) {
+    const formula = input.waxId === undefined ? waxFormulas[0] : waxFormulas.find(wax => wax.id === input.waxId)
+    if (!formula) throw new RangeError(`no wax formula "${input.waxId}" in the settings`)
+    volumetricExpansionPerK = formula.volumetricExpansionPerK
+  }
+  const boreDiameterIn = input.boreDiameterIn ?? settings.fit.boreDiameterIn
+  const temperatureF = input.unit === 'F' ? input.temperature : celsiusToFahrenheit(input.temperature)
+  const deltaK = ((temperatureF - referenceTemperatureF) * 5) / 9
+  const linearExpansionPerK = linearExpansionFromVolumetric(volumetricExpansionPerK)
+  const growthIn = boreGrowthIn(boreDiameterIn, linearExpansionPerK, deltaK)
+  const notes: string[] = []
+  if (taper.unverified) notes.push(`The taper (${taper.perFootIn} in per foot) is from memory and unverified: measure your mandrel and set it.`)
+  notes.push('The mandrel is taken as not growing; steel expands far less than wax.')
+  return {
+    referenceTemperatureF,
+    temperatureF,
+    deltaK,
+    volumetricExpansionPerK,
+    linearExpansionPerK,
+    boreDiameterIn,
+    boreGrowthIn: growthIn,
+    extraTravelIn: taperTravelIn(growthIn, taper.perFootIn),
+    taperPerFootIn: taper.perFootIn,
+    taperUnverified: taper.unverified,
+    notes,
+  }
+}
+
+export type HeatRiskLevel = 'ok' | 'caution' | 'hold'
+
+export interface HeatRiskInput {
+  forecastHigh: number
+  unit: TemperatureUnit
+  daysInTransit: number
+}
+
+export interface HeatRisk {
+  level: HeatRiskLevel
+  forecastHighC: number
+  /** Thresholds after adjusting for the days in transit. */
+  cautionAtC: number
+  holdAtC: number
+  reasons: string[]
+}
+
+const formatCelsius = (celsius: number) => `${Math.round(celsius * 10) / 10} °C`
+
+/**
+ * Heat risk of a parcel from the forecast high at the destination and the days in transit.
+ * Rule: both thresholds (settings) drop by `stricterPerTransitDayC` for every day in transit beyond the
+ * first, since every day is another afternoon in a van; at or above the hold threshold the parcel waits,
+ * at or above the caution threshold it goes with heat cautions early in the week.
+ */
+export function heatRisk(input: HeatRiskInput, settings: EngineSettings = defaultEngineSettings): HeatRisk {
+  if (!Number.isFinite(input.forecastHigh)) throw new RangeError('the forecast high must be a number')
+  if (!(input.daysInTransit >= 0)) throw new RangeError(`days in transit cannot be negative, got ${input.daysInTransit}`)
+  const { cautionHighC, holdHighC, stricterPerTransitDayC } = settings.heat
+  const extraDays = Math.max(0, Math.ceil(input.daysInTransit) - 1)
+  const cautionAtC = cautionHighC - stricterPerTransitDayC * extraDays
+  const holdAtC = holdHighC - stricterPerTransitDayC * extraDays
+  const forecastHighC = temperatureInCelsius(input.forecastHigh, input.unit)
+  const level: HeatRiskLevel = forecastHighC >= holdAtC ? 'hold' : forecastHighC >= cautionAtC ? 'caution' : 'ok'
+
+  const reasons: string[] = []
+  const transit = extraDays > 0
+    ? ` (${input.daysInTransit} days in transit lower the thresholds by ${formatCelsius(stricterPerTransitDayC * extraDays)})`
+    : ''
+  if (level === 'hold') reasons.push(`Forecast high ${formatCelsius(forecastHighC)} is at or above the hold threshold of ${formatCelsius(holdAtC)}${transit}: hold the parcel until the forecast cools.`)
+  else if (level === 'caution') reasons.push(`Forecast high ${formatCelsius(forecastHighC)} is at or above the caution threshold of ${formatCelsius(cautionAtC)}${transit}: ship early in the week with heat cautions on the slip.`)
+  else reasons.push(`Forecast high ${formatCelsius(forecastHighC)} is below the caution threshold of ${formatCelsius(cautionAtC)}${transit}.`)
+  if (level !== 'ok') reasons.push(`Delivery-van interiors can reach about ${PARCEL_INTERIOR_PEAK_C} °C (shipping guidance), well past the point where wax softens.`)
+  return { level, forecastHighC, cautionAtC, holdAtC, reasons }
+}
+
+const MONDAY = 1
+const TUESDAY = 2
+const FRIDAY = 5
+const DAY_MS = 86_400_000
+
+function utcMidnight(from: Date | string): number {
+  if (typeof from === 'string') {
+    const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(from)
+    if (!match) throw new RangeError(`expected a date like 2025-07-03, got "${from}"`)
+    return Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3]))
+  }
+  if (Number.isNaN(from.getTime())) throw new RangeError('invalid date')
+  return Date.UTC(from.getUTCFullYear(), from.getUTCMonth(), from.getUTCDate())
+}
+
+/**
+ * The first Monday or Tuesday on or after `from` (so a Monday gives itself), as `YYYY-MM-DD`.
+ * Shipping early in the week keeps a parcel from sitting in a depot or van over a weekend; with
+ * `daysInTransit` a Tuesday is skipped when the parcel would not arrive by Friday. Calendar days are
+ * read in UTC: pass the shop's local date as a `YYYY-MM-DD` string to avoid a time-zone shift.
+ */
+export function nextEarlyWeekShippingDay(from: Date | string, options: { daysInTransit?: number } = {}): string {
+  const start = utcMidnight(from)
+  const transit = Math.ceil(options.daysInTransit ?? 0)
+  let firstMonday: number | undefined
+  for (let offset = 0; offset < 14; offset++) {
+    const day = start + offset * DAY_MS
+    const weekday = new Date(day).getUTCDay()
+    if (weekday === MONDAY && firstMonday === undefined) firstMonday = day
+    if ((weekday === MONDAY || weekday === TUESDAY) && weekday + transit <= FRIDAY) {
+      return new Date(day).toISOString().slice(0, 10)
+    }
+  }
+  // A transit longer than a working week crosses a weekend whatever the day; Monday loses least.
+  return new Date(firstMonday ?? start).toISOString().slice(0, 10)
+}

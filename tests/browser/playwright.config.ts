@@ -1,0 +1,40 @@
+import { defineConfig } from '@playwright/test'
+
+const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
+
+// Debian's Chromium, never a downloaded browser; the launcher starts the fakes and the built server
+// on its own ports with a fresh in-memory database.
+export default defineConfig({
+  testDir: '.',
+  outputDir: './report/results',
+  timeout: 60_000,
+  workers: 1,
+  reporter: [['list']],
+  use: {
+    baseURL: `http://127.0.0.1:${port}`,
+    launchOptions: {
+      executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'],
+    },
+  },
+  projects: [{ name: 'chromium', use: { browserName: 'chromium' } }],
+  webServer: {
+    command: 'node --import tsx scripts/start.mjs',
+    cwd: '../..',
+    url: `http://127.0.0.1:${port}/api/health`,
+    timeout: 240_000,
+    reuseExistingServer: false,
+    stdout: 'ignore',
+    stderr: 'pipe',
+    env: {
+      PORT: String(port),
+      NUXT_SITE_URL: `http://127.0.0.1:${port}`,
+      NUXT_DB_DIR: 'memory://',
+      NUXT_SESSION_PASSWORD: 'browser-test-session-password-0123456789abcdef',
+      NUXT_MAIL_POLL_MS: '200',
+      MAIL_FAKE_SMTP_PORT: '2625',
+      MAIL_FAKE_HTTP_PORT: '8125',
+      MAIL_FAKE_DIR: '.data/browser-test-mail',
+    },
+  },
+})
