@@ -37,7 +37,10 @@ export default defineNuxtConfig({
     },
   },
   compatibilityDate: '2026-11-01',
+  // GW_BUILD_DIR / GW_OUTPUT_DIR let two builds of one checkout live side by side (e.g. a second worktree's tests).
+  ...(process.env.GW_BUILD_DIR ? { buildDir: process.env.GW_BUILD_DIR } : {}),
   nitro: {
+    ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
     externals: {
       // PGlite loads its WASM and data files next to its own module at run time.
       external: ['@electric-sql/pglite'],
@@ -47,11 +50,11 @@ export default defineNuxtConfig({
     strict: true,
   },
   telemetry: false,
-  tailwindcss: {
-    cssPath: '~/assets/css/tailwind.css',
-  },
   eslint: {
     config: { stylistic: true },
+  },
+  tailwindcss: {
+    cssPath: '~/assets/css/tailwind.css',
   },
   image: {
     provider: 'ipx',

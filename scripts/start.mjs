@@ -20,7 +20,8 @@ function newestMtime(path) {
 }
 
 const sources = ['app', 'server', 'shared', 'content', 'public', 'drizzle', 'nuxt.config.ts', 'tailwind.config.ts', 'package-lock.json']
-const built = existsSync('.output/nitro.json') ? statSync('.output/nitro.json').mtimeMs : 0
+const outputDir = process.env.GW_OUTPUT_DIR ?? '.output'
+const built = existsSync(`${outputDir}/nitro.json`) ? statSync(`${outputDir}/nitro.json`).mtimeMs : 0
 if (Math.max(...sources.map(newestMtime)) > built) {
   console.log('Building the app (first start or changed sources)…')
   const result = spawnSync('npx', ['nuxt', 'build'], { stdio: 'inherit' })
@@ -61,7 +62,7 @@ process.on('SIGINT', () => stop(0))
 process.on('SIGTERM', () => stop(0))
 
 run('mail', ['--import', 'tsx', 'fakes/mail/server.ts'], { MAIL_FAKE_SMTP_PORT: String(mailSmtpPort), MAIL_FAKE_HTTP_PORT: String(mailHttpPort) })
-run('server', ['.output/server/index.mjs'], {
+run('server', [`${outputDir}/server/index.mjs`], {
   PORT: String(port),
   HOST: process.env.HOST ?? '127.0.0.1',
   NUXT_SESSION_PASSWORD: sessionPassword,

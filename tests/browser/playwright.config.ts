@@ -32,9 +32,9 @@ export default defineConfig({
       NUXT_DB_DIR: 'memory://',
       NUXT_SESSION_PASSWORD: 'browser-test-session-password-0123456789abcdef',
       NUXT_MAIL_POLL_MS: '200',
-      MAIL_FAKE_SMTP_PORT: '2625',
-      MAIL_FAKE_HTTP_PORT: '8125',
-      MAIL_FAKE_DIR: '.data/browser-test-mail',
+      MAIL_FAKE_SMTP_PORT: String(port + 1001),
+      MAIL_FAKE_HTTP_PORT: String(port + 1002),
+      MAIL_FAKE_DIR: `.data/browser-test-mail-${port}`,
     },
   },
 })

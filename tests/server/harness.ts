@@ -22,7 +22,7 @@ export async function useTestServer(env: Record<string, string> = {}) {
     server: true,
     browser: false,
     setupTimeout: 120_000,
-    nuxtConfig: { nitro: { output: { dir: resolve(rootDir, '.output') } } },
+    nuxtConfig: { nitro: { output: { dir: resolve(rootDir, process.env.GW_OUTPUT_DIR ?? '.output') } } },
     env: {
       NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
       NUXT_DB_DIR: 'memory://',
