@@ -17,8 +17,8 @@ export default {
         sans: ['"IBM Plex Sans"', 'system-ui', 'sans-serif'],
       },
       fontSize: {
-        'title': ['2.25rem', { lineHeight: '2.6rem', fontWeight: '700' }],
-        'heading': ['1.5rem', { lineHeight: '2rem', fontWeight: '600' }],
+        title: ['2.25rem', { lineHeight: '2.6rem', fontWeight: '700' }],
+        heading: ['1.5rem', { lineHeight: '2rem', fontWeight: '600' }],
       },
     },
   },

@@ -11,6 +11,7 @@ export async function seedDemo(db: Database) {
   const hashes = await Promise.all(demoAccounts.map(account => hashPassword(account.password)))
   await db.transaction(async (tx) => {
     await tx.insert(settings).values({ key: 'shop', value: shop }).onConflictDoNothing()
+    await tx.insert(settings).values({ key: 'engine', value: defaultEngineSettings }).onConflictDoNothing()
     for (const [index, account] of demoAccounts.entries()) {
       await tx.insert(users).values({ email: account.email, name: account.name, role: account.role, passwordHash: hashes[index]! })
         .onConflictDoNothing()

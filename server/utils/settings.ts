@@ -6,6 +6,7 @@ import type { Database, Transaction } from './db'
 /** Each settings key has one zod schema; what is stored is re-validated on the way out, with defaults filled in. */
 const settingSchemas = {
   shop: shopProfileSchema,
+  engine: engineSettingsSchema,
 } satisfies Record<string, ZodType>
 
 export type SettingKey = keyof typeof settingSchemas
