@@ -32,8 +32,18 @@ export default defineNuxtConfig({
     mailPollMs: 2000,
     mailMaxBackoffMs: 300_000,
     resetTtlSeconds: 3600,
+    // Payments: by default the local fake (fakes/stripe) on 127.0.0.1:12111 through the real SDK.
+    // For the real service set a real secret key and NUXT_STRIPE_API_HOST to an empty string.
+    stripeSecretKey: 'sk_test_local_fake_key',
+    stripeApiHost: '127.0.0.1',
+    stripeApiPort: 12111,
+    stripeApiProtocol: 'http',
+    stripeWebhookSecret: 'whsec_local_fake',
+    checkoutHoldMinutes: 30,
     public: {
       shopName: 'Groovewright demo workshop',
+      // Only with a real key is the payment service's own script loaded in the browser.
+      stripePublishableKey: '',
     },
   },
   compatibilityDate: '2026-11-01',
@@ -53,10 +63,10 @@ export default defineNuxtConfig({
   eslint: {
     config: { stylistic: true },
   },
-  tailwindcss: {
-    cssPath: '~/assets/css/tailwind.css',
-  },
   image: {
     provider: 'ipx',
+  },
+  tailwindcss: {
+    cssPath: '~/assets/css/tailwind.css',
   },
 })

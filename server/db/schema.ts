@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm'
-import { index, integer, jsonb, pgEnum, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core'
+import { boolean, check, index, integer, jsonb, pgEnum, pgSequence, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core'
 
 export const userRole = pgEnum('user_role', ['collector', 'maker', 'shipper'])
 
@@ -61,3 +61,158 @@ export const passwordResets = pgTable('password_resets', {
   usedAt: timestamp('used_at', { withTimezone: true }),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
 })
+
+export const cylinderFormat = pgEnum('cylinder_format', ['two_minute', 'four_minute'])
+export const productKind = pgEnum('product_kind', ['blank', 'recorded', 'custom'])
+
+/** Uploaded files (photos, audio samples, surface-test recordings), stored by generated key in Nitro storage. */
+export const files = pgTable('files', {
+  id: text('id').primaryKey(),
+  purpose: text('purpose').notNull(),
+  mime: text('mime').notNull(),
+  bytes: integer('bytes').notNull(),
+  originalName: text('original_name').notNull(),
+  // Public files (catalogue photos and samples) are served to anyone; others only to makers.
+  isPublic: boolean('is_public').notNull().default(false),
+  uploadedBy: integer('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+})
+
+export const products = pgTable('products', {
+  id: serial('id').primaryKey(),
+  slug: text('slug').notNull().unique(),
+  kind: productKind('kind').notNull(),
+  title: text('title').notNull(),
+  performer: text('performer'),
+  description: text('description').notNull().default(''),
+  format: cylinderFormat('format').notNull(),
+  rpm: integer('rpm').notNull().default(160),
+  material: text('material').notNull(),
+  condition: text('condition').notNull().default('new'),
+  runningTimeS: integer('running_time_s'),
+  priceMinor: integer('price_minor').notNull(),
+  // Available to sell now; checkout reserves by decrementing it, and the check keeps it from going below zero.
+  stock: integer('stock').notNull().default(0),
+  editionSize: integer('edition_size'),
+  // Recorded cylinders cut for each order need a production ticket; stock blanks only need picking.
+  madeToOrder: boolean('made_to_order').notNull().default(false),
+  hidden: boolean('hidden').notNull().default(false),
+  photoFileIds: jsonb('photo_file_ids').$type<string[]>().notNull().default([]),
+  photoAlt: text('photo_alt').notNull().default(''),
+  sampleFileId: text('sample_file_id').references(() => files.id, { onDelete: 'set null' }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  check('products_stock_not_negative', sql`${table.stock} >= 0`),
+  check('products_price_not_negative', sql`${table.priceMinor} >= 0`),
+  index('products_listing').on(table.hidden, table.kind, table.format),
+])
+
+export const productChanges = pgTable('product_changes', {
+  id: serial('id').primaryKey(),
+  productId: integer('product_id').notNull().references(() => products.id, { onDelete: 'cascade' }),
+  userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+  field: text('field').notNull(),
+  oldValue: text('old_value'),
+  newValue: text('new_value'),
+  at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+})
+
+export const orderStatus = pgEnum('order_status', [
+  'awaiting_payment', 'paid', 'in_production', 'proof_pending', 'ready_to_pack', 'packed', 'shipped', 'delivered', 'cancelled', 'refunded',
+])
+
+export interface ShippingAddress {
+  name: string
+  line1: string
+  line2?: string
+  city: string
+  region?: string
+  postalCode: string
+  country: string
+}
+
+export const orderNumberSequence = pgSequence('order_number_seq', { startWith: 1001 })
+
+export const orders = pgTable('orders', {
+  id: serial('id').primaryKey(),
+  // e.g. GW26-01001: the year and a sequence number, short enough to read out on the telephone.
+  number: text('number').notNull().unique().default(sql`('GW' || to_char(now(), 'YY') || '-' || lpad(nextval('order_number_seq')::text, 5, '0'))`),
+  userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+  email: text('email').notNull(),
+  shippingAddress: jsonb('shipping_address').$type<ShippingAddress>().notNull(),
+  zone: text('zone').notNull(),
+  taxRegion: text('tax_region').notNull(),
+  status: orderStatus('status').notNull().default('awaiting_payment'),
+  currency: text('currency').notNull(),
+  subtotalMinor: integer('subtotal_minor').notNull(),
+  shippingMinor: integer('shipping_minor').notNull(),
+  taxMinor: integer('tax_minor').notNull(),
+  totalMinor: integer('total_minor').notNull(),
+  refundedMinor: integer('refunded_minor').notNull().default(0),
+  checkoutSessionId: text('checkout_session_id').unique(),
+  paymentIntentId: text('payment_intent_id'),
+  reservationExpiresAt: timestamp('reservation_expires_at', { withTimezone: true }),
+  // Stock of this order's items has been given back (expiry, failure or a restocking refund); set once.
+  stockReleasedAt: timestamp('stock_released_at', { withTimezone: true }),
+  paidAt: timestamp('paid_at', { withTimezone: true }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('orders_user').on(table.userId),
+  index('orders_status').on(table.status, table.createdAt),
+  check('orders_refund_within_total', sql`${table.refundedMinor} >= 0 and ${table.refundedMinor} <= ${table.totalMinor}`),
+])
+
+export const orderItems = pgTable('order_items', {
+  id: serial('id').primaryKey(),
+  orderId: integer('order_id').notNull().references(() => orders.id, { onDelete: 'cascade' }),
+  productId: integer('product_id').references(() => products.id, { onDelete: 'set null' }),
+  kind: productKind('kind').notNull(),
+  title: text('title').notNull(),
+  format: cylinderFormat('format').notNull(),
+  quantity: integer('quantity').notNull(),
+  unitPriceMinor: integer('unit_price_minor').notNull(),
+  lineTotalMinor: integer('line_total_minor').notNull(),
+  taxMinor: integer('tax_minor').notNull(),
+  madeToOrder: boolean('made_to_order').notNull().default(false),
+  details: jsonb('details').$type<Record<string, unknown>>(),
+}, table => [
+  index('order_items_order').on(table.orderId),
+  check('order_items_quantity_positive', sql`${table.quantity} > 0`),
+])
+
+export const orderEvents = pgTable('order_events', {
+  id: serial('id').primaryKey(),
+  orderId: integer('order_id').notNull().references(() => orders.id, { onDelete: 'cascade' }),
+  fromStatus: orderStatus('from_status'),
+  toStatus: orderStatus('to_status').notNull(),
+  note: text('note'),
+  actorUserId: integer('actor_user_id').references(() => users.id, { onDelete: 'set null' }),
+  at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('order_events_order').on(table.orderId, table.at),
+])
+
+/** Each payment-service event is handled once: the primary key is the event id. */
+export const paymentEvents = pgTable('payment_events', {
+  eventId: text('event_id').primaryKey(),
+  type: text('type').notNull(),
+  orderId: integer('order_id').references(() => orders.id, { onDelete: 'set null' }),
+  outcome: text('outcome').notNull(),
+  receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+})
+
+export const refunds = pgTable('refunds', {
+  id: serial('id').primaryKey(),
+  orderId: integer('order_id').notNull().references(() => orders.id, { onDelete: 'cascade' }),
+  providerRefundId: text('provider_refund_id').unique(),
+  amountMinor: integer('amount_minor').notNull(),
+  reason: text('reason').notNull(),
+  restock: boolean('restock').notNull().default(false),
+  status: text('status').notNull().default('requested'),
+  createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  check('refunds_amount_positive', sql`${table.amountMinor} > 0`),
+])

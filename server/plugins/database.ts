@@ -15,11 +15,17 @@ export default defineNitroPlugin((nitroApp) => {
     if (!stopped) timer = setTimeout(loop, Number(config.mailPollMs))
   }
 
+  let sweepTimer: ReturnType<typeof setInterval> | undefined
+  const sweep = () => sweepExpiredReservations().catch((error) => {
+    console.error('[checkout] reservation sweep failed:', error instanceof Error ? error.message : error)
+  })
+
   const starting = (async () => {
     const db = await useDB()
     if (String(config.seedDemo) !== 'false') await seedIfEmpty(db)
     await requeueInterruptedMail()
     if (!stopped) timer = setTimeout(loop, 200)
+    if (!stopped) sweepTimer = setInterval(sweep, 60_000)
   })()
   trackStartup(starting)
   starting.catch((error) => {
@@ -29,6 +35,7 @@ export default defineNitroPlugin((nitroApp) => {
   nitroApp.hooks.hook('close', async () => {
     stopped = true
     if (timer) clearTimeout(timer)
+    if (sweepTimer) clearInterval(sweepTimer)
     await starting.catch(() => undefined)
     await closeDB()
   })

@@ -1,0 +1,26 @@
+import { eq } from 'drizzle-orm'
+import { z } from 'zod'
+import { orders } from '../../../../db/schema'
+
+const paramsSchema = z.object({ number: z.string().trim().min(1).max(40) })
+
+// Only an unpaid order can be cancelled here; a paid one is refunded instead.
+export default defineEventHandler(async (event) => {
+  const maker = await requireRole(event, 'maker')
+  const { number } = paramsWith(event, paramsSchema)
+  const db = await useDB()
+  const [order] = await db.select().from(orders).where(eq(orders.number, number))
+  if (!order) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such order.' })
+  if (order.status !== 'awaiting_payment') throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `Only an unpaid order can be cancelled; this one is ${order.status}.` })
+  if (order.checkoutSessionId) {
+    // Close the payment page first, so the customer cannot pay for a cancelled order.
+    await useStripe().checkout.sessions.expire(order.checkoutSessionId).catch(() => undefined)
+  }
+  const cancelled = await db.transaction(async (tx) => {
+    const moved = await moveOrder(tx, order.id, ['awaiting_payment'], 'cancelled', {}, 'Cancelled by the workshop.', maker.id)
+    if (moved) await returnStock(tx, order.id)
+    return moved
+  })
+  if (!cancelled) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'The order changed meanwhile (perhaps it was just paid); reload it.' })
+  return { number: cancelled.number, status: cancelled.status }
+})

@@ -1,0 +1,167 @@
+import { createHmac, timingSafeEqual } from 'node:crypto'
+import { and, eq, sql } from 'drizzle-orm'
+import { orderEvents, orderItems, orders, products } from '../db/schema'
+import type { Database, Transaction } from './db'
+
+export type Order = typeof orders.$inferSelect
+type OrderStatusValue = Order['status']
+
+/** A guest's key to their order page, sent in their confirmation mail: an HMAC of the order number. */
+export function orderAccessToken(orderNumber: string): string {
+  const secret = String(useRuntimeConfig().session?.password ?? process.env.NUXT_SESSION_PASSWORD ?? '')
+  return createHmac('sha256', `order-link:${secret}`).update(orderNumber).digest('base64url').slice(0, 32)
+}
+
+export function orderAccessTokenValid(orderNumber: string, token: string): boolean {
+  const expected = Buffer.from(orderAccessToken(orderNumber))
+  const given = Buffer.from(token)
+  return expected.length === given.length && timingSafeEqual(expected, given)
+}
+
+export function orderLink(orderNumber: string, signedIn: boolean): string {
+  const site = String(useRuntimeConfig().siteUrl)
+  return signedIn ? `${site}/account/orders/${orderNumber}` : `${site}/orders/${orderNumber}?t=${orderAccessToken(orderNumber)}`
+}
+
+/**
+ * Moves an order from one of `from` to `to` with a conditional update, so a repeated or late event
+ * finds nothing to do. Returns the updated order, or null when the order was not in a `from` state.
+ */
+export async function moveOrder(tx: Database | Transaction, orderId: number, from: OrderStatusValue[], to: OrderStatusValue, extra: Partial<Order> = {}, note?: string, actorUserId?: number) {
+  const [current] = await tx.select({ status: orders.status }).from(orders).where(eq(orders.id, orderId)).for('update')
+  if (!current || !from.includes(current.status)) return null
+  const [updated] = await tx.update(orders).set({ ...extra, status: to, updatedAt: new Date() })
+    .where(and(eq(orders.id, orderId), eq(orders.status, current.status))).returning()
+  if (!updated) return null
+  await tx.insert(orderEvents).values({ orderId, fromStatus: current.status, toStatus: to, note, actorUserId })
+  return updated
+}
+
+/** Gives the order's reserved stock back, once (guarded by `stock_released_at`). */
+export async function returnStock(tx: Database | Transaction, orderId: number) {
+  const [marked] = await tx.update(orders).set({ stockReleasedAt: new Date() })
+    .where(and(eq(orders.id, orderId), sql`${orders.stockReleasedAt} is null`)).returning({ id: orders.id })
+  if (!marked) return false
+  const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
+  for (const item of items) {
+    if (item.productId) await tx.update(products).set({ stock: sql`${products.stock} + ${item.quantity}` }).where(eq(products.id, item.productId))
+  }
+  return true
+}
+
+/** An unpaid order whose payment failed or expired: cancelled, and its stock is for sale again. */
+export async function releaseReservation(tx: Database | Transaction, orderId: number, note: string) {
+  const cancelled = await moveOrder(tx, orderId, ['awaiting_payment'], 'cancelled', {}, note)
+  if (cancelled) await returnStock(tx, orderId)
+  return cancelled
+}
+
+/** Takes the stock of a cancelled order again (a payment that arrived after its hold ran out). */
+export async function reReserveStock(tx: Database | Transaction, orderId: number): Promise<boolean> {
+  const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
+  for (const item of items) {
+    if (!item.productId) continue
+    const [taken] = await tx.update(products).set({ stock: sql`${products.stock} - ${item.quantity}` })
+      .where(and(eq(products.id, item.productId), sql`${products.stock} >= ${item.quantity}`)).returning({ id: products.id })
+    if (!taken) return false
+  }
+  await tx.update(orders).set({ stockReleasedAt: null }).where(eq(orders.id, orderId))
+  return true
+}
+
+export async function orderWithItems(db: Database | Transaction, orderId: number) {
+  const [order] = await db.select().from(orders).where(eq(orders.id, orderId))
+  if (!order) return null
+  const items = await db.select().from(orderItems).where(eq(orderItems.orderId, orderId))
+  return { order, items }
+}
+
+export async function queueOrderConfirmation(tx: Database | Transaction, orderId: number) {
+  const found = await orderWithItems(tx, orderId)
+  if (!found) return
+  const { order, items } = found
+  const money = (minor: number) => formatMoney(minor, order.currency)
+  const address = order.shippingAddress
+  await queueMail(tx, {
+    to: order.email,
+    subject: `Order ${order.number} is paid — thank you`,
+    dedupeKey: `order-paid:${order.number}`,
+    content: {
+      heading: `Thank you — order ${order.number} is paid`,
+      paragraphs: [
+        ...items.map(item => `${item.quantity} × ${item.title} — ${money(item.lineTotalMinor)}`),
+        `Subtotal ${money(order.subtotalMinor)} · shipping ${money(order.shippingMinor)} · tax ${money(order.taxMinor)} · total ${money(order.totalMinor)}.`,
+        `Shipping to: ${[address.name, address.line1, address.line2, `${address.postalCode} ${address.city}`, address.region, address.country].filter(Boolean).join(', ')}.`,
+        items.some(item => item.madeToOrder)
+          ? 'What happens next: cylinders made to order are cut on a tested blank; you can follow each step on your order page. Stock items are packed once everything is ready.'
+          : 'What happens next: we pack your cylinders in padded tubes and tell you when the parcel leaves. In hot weather we may hold a parcel for a cooler day.',
+      ],
+      action: { label: 'Follow your order', url: orderLink(order.number, order.userId !== null) },
+    },
+  })
+}
+
+/**
+ * Opens the hosted payment page for a freshly written order. The idempotency key makes a retried call
+ * return the same session. If the payment service cannot be reached, the order is cancelled and its
+ * stock given back at once, and the customer is told that nothing was charged.
+ */
+export async function createCheckoutSession(order: Order, lines: { title: string, qty: number, unitPriceMinor: number }[]) {
+  const site = String(useRuntimeConfig().siteUrl)
+  const token = orderAccessToken(order.number)
+  const stripe = useStripe()
+  try {
+    const extraLines = [
+      ...(order.shippingMinor > 0 ? [{ title: 'Shipping', qty: 1, unitPriceMinor: order.shippingMinor }] : []),
+      ...(order.taxMinor > 0 ? [{ title: 'Tax', qty: 1, unitPriceMinor: order.taxMinor }] : []),
+    ]
+    const session = await stripe.checkout.sessions.create({
+      mode: 'payment',
+      customer_email: order.email,
+      client_reference_id: order.number,
+      metadata: { order_number: order.number },
+      payment_intent_data: { metadata: { order_number: order.number } },
+      line_items: [...lines, ...extraLines].map(line => ({
+        quantity: line.qty,
+        price_data: { currency: order.currency.toLowerCase(), unit_amount: line.unitPriceMinor, product_data: { name: line.title } },
+      })),
+      expires_at: Math.floor((order.reservationExpiresAt ?? new Date(Date.now() + 30 * 60_000)).getTime() / 1000) + 60,
+      success_url: `${site}/checkout/done?order=${order.number}&t=${token}`,
+      cancel_url: `${site}/cart?cancelled=${order.number}`,
+    }, { idempotencyKey: `checkout-${order.number}` })
+    const db = await useDB()
+    await db.update(orders).set({ checkoutSessionId: session.id }).where(eq(orders.id, order.id))
+    return session
+  }
+  catch (error) {
+    const db = await useDB()
+    await db.transaction(tx => releaseReservation(tx, order.id, 'The payment service could not be reached.'))
+    console.error('[checkout] session creation failed:', error instanceof Error ? error.message : error)
+    throw createError({ statusCode: 502, statusMessage: 'Payment service unavailable', message: 'The payment service could not be reached. Nothing was charged; please try again in a minute.' })
+  }
+}
+
+/** What a customer (or the maker) sees of one order: no payment-service ids. */
+export async function orderView(db: Database | Transaction, order: Order) {
+  const items = await db.select().from(orderItems).where(eq(orderItems.orderId, order.id))
+  const timeline = await db.select({ at: orderEvents.at, from: orderEvents.fromStatus, to: orderEvents.toStatus, note: orderEvents.note })
+    .from(orderEvents).where(eq(orderEvents.orderId, order.id)).orderBy(orderEvents.at, orderEvents.id)
+  return {
+    number: order.number,
+    status: order.status,
+    email: order.email,
+    shippingAddress: order.shippingAddress,
+    zone: order.zone,
+    currency: order.currency,
+    subtotalMinor: order.subtotalMinor,
+    shippingMinor: order.shippingMinor,
+    taxMinor: order.taxMinor,
+    totalMinor: order.totalMinor,
+    refundedMinor: order.refundedMinor,
+    createdAt: order.createdAt,
+    paidAt: order.paidAt,
+    reservationExpiresAt: order.reservationExpiresAt,
+    items: items.map(item => ({ id: item.id, title: item.title, kind: item.kind, format: item.format, quantity: item.quantity, unitPriceMinor: item.unitPriceMinor, lineTotalMinor: item.lineTotalMinor, madeToOrder: item.madeToOrder })),
+    timeline,
+  }
+}

@@ -1,0 +1,135 @@
+import type Stripe from 'stripe'
+import { and, eq, sql } from 'drizzle-orm'
+import { orders, products, refunds, orderItems } from '../db/schema'
+import type { Transaction } from './db'
+
+interface Handled {
+  outcome: string
+  orderId?: number
+  // Calls to the payment service happen after the transaction commits.
+  followUp?: () => Promise<unknown>
+}
+
+async function findOrder(tx: Transaction, by: { number?: string | null, paymentIntent?: string | null }) {
+  if (by.number) {
+    const [order] = await tx.select().from(orders).where(eq(orders.number, by.number))
+    if (order) return order
+  }
+  if (by.paymentIntent) {
+    const [order] = await tx.select().from(orders).where(eq(orders.paymentIntentId, by.paymentIntent))
+    if (order) return order
+  }
+  return null
+}
+
+const intentId = (value: string | { id: string } | null | undefined) => (typeof value === 'string' ? value : value?.id ?? null)
+
+export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.Event): Promise<Handled> {
+  switch (paymentEvent.type) {
+    case 'checkout.session.completed': {
+      const session = paymentEvent.data.object
+      const order = await findOrder(tx, { number: session.metadata?.order_number ?? session.client_reference_id })
+      if (!order) return { outcome: 'no such order' }
+      if (session.payment_status !== 'paid') return { outcome: 'not paid yet', orderId: order.id }
+      const paymentIntent = intentId(session.payment_intent)
+      const paid = await moveOrder(tx, order.id, ['awaiting_payment'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent })
+      if (paid) {
+        await queueOrderConfirmation(tx, order.id)
+        return { outcome: 'paid', orderId: order.id }
+      }
+      if (order.status === 'cancelled' && order.paidAt === null) {
+        // The money came after the hold ran out: take the stock again if it is still there, else refund.
+        if (await reReserveStock(tx, order.id)) {
+          await moveOrder(tx, order.id, ['cancelled'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent }, 'Payment arrived after the hold ran out; the stock was still there.')
+          await queueOrderConfirmation(tx, order.id)
+          return { outcome: 'paid late', orderId: order.id }
+        }
+        await tx.update(orders).set({ paymentIntentId: paymentIntent, paidAt: new Date() }).where(eq(orders.id, order.id))
+        return {
+          outcome: 'paid after sell-out: refunding',
+          orderId: order.id,
+          followUp: () => useStripe().refunds.create({ payment_intent: paymentIntent!, reason: 'requested_by_customer', metadata: { order_number: order.number, automatic: 'sold out before payment arrived' } }, { idempotencyKey: `late-refund-${order.number}` }),
+        }
+      }
+      return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
+    }
+    case 'checkout.session.expired': {
+      const session = paymentEvent.data.object
+      const order = await findOrder(tx, { number: session.metadata?.order_number ?? session.client_reference_id })
+      if (!order) return { outcome: 'no such order' }
+      const released = await releaseReservation(tx, order.id, 'The payment page expired unpaid.')
+      return { outcome: released ? 'released' : `ignored: order is ${order.status}`, orderId: order.id }
+    }
+    case 'payment_intent.payment_failed': {
+      const intent = paymentEvent.data.object
+      const order = await findOrder(tx, { number: intent.metadata?.order_number })
+      if (!order) return { outcome: 'no such order' }
+      const released = await releaseReservation(tx, order.id, `Payment failed: ${intent.last_payment_error?.message ?? 'declined'}`)
+      if (!released) return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
+      await queueMail(tx, {
+        to: order.email,
+        subject: `Payment for order ${order.number} did not go through`,
+        dedupeKey: `payment-failed:${order.number}`,
+        content: {
+          heading: 'Your payment did not go through',
+          paragraphs: [
+            `The card payment for order ${order.number} was declined${intent.last_payment_error?.message ? ` (${intent.last_payment_error.message})` : ''}. Nothing was charged.`,
+            'The cylinders we were holding for you are back on sale; your cart is still in your browser if you would like to try again.',
+          ],
+          action: { label: 'Back to your cart', url: `${useRuntimeConfig().siteUrl}/cart` },
+        },
+      })
+      const sessionId = order.checkoutSessionId
+      return {
+        outcome: 'released after failure',
+        orderId: order.id,
+        followUp: async () => sessionId && await useStripe().checkout.sessions.expire(sessionId).catch(() => undefined),
+      }
+    }
+    case 'charge.refunded': {
+      const charge = paymentEvent.data.object
+      const order = await findOrder(tx, { number: charge.metadata?.order_number, paymentIntent: intentId(charge.payment_intent) })
+      if (!order) return { outcome: 'no such order' }
+      return { outcome: await applyRefunds(tx, order, charge), orderId: order.id }
+    }
+    default:
+      return { outcome: 'ignored type' }
+  }
+}
+
+async function applyRefunds(tx: Transaction, order: typeof orders.$inferSelect, charge: Stripe.Charge) {
+  const refundedMinor = Math.min(order.totalMinor, Math.max(order.refundedMinor, charge.amount_refunded))
+  for (const providerRefund of charge.refunds?.data ?? []) {
+    const localId = Number(providerRefund.metadata?.refund_id)
+    const match = Number.isInteger(localId) && localId > 0 ? eq(refunds.id, localId) : eq(refunds.providerRefundId, providerRefund.id)
+    const [settled] = await tx.update(refunds).set({ status: 'succeeded', providerRefundId: providerRefund.id })
+      .where(and(match, eq(refunds.orderId, order.id), sql`${refunds.status} <> 'succeeded'`)).returning()
+    if (settled?.restock) {
+      const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, order.id))
+      for (const item of items) {
+        if (item.productId && !item.madeToOrder) await tx.update(products).set({ stock: sql`${products.stock} + ${item.quantity}` }).where(eq(products.id, item.productId))
+      }
+    }
+    if (settled) {
+      await queueMail(tx, {
+        to: order.email,
+        subject: `Refund for order ${order.number}`,
+        dedupeKey: `refund:${settled.id}`,
+        content: {
+          heading: 'Your refund is on its way',
+          paragraphs: [
+            `We have refunded ${formatMoney(settled.amountMinor, order.currency)} of order ${order.number} to the card you paid with. Reason: ${settled.reason}.`,
+            'Banks usually show a refund within 5–10 working days.',
+          ],
+          action: { label: 'See your order', url: orderLink(order.number, order.userId !== null) },
+        },
+      })
+    }
+  }
+  await tx.update(orders).set({ refundedMinor, updatedAt: new Date() }).where(eq(orders.id, order.id))
+  if (refundedMinor >= order.totalMinor) {
+    await moveOrder(tx, order.id, ['paid', 'in_production', 'proof_pending', 'ready_to_pack', 'packed', 'shipped', 'delivered', 'cancelled'], 'refunded', {}, 'Refunded in full.')
+    return 'refunded in full'
+  }
+  return 'refunded in part'
+}

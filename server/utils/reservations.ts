@@ -1,0 +1,28 @@
+import { and, eq, lt } from 'drizzle-orm'
+import { orders } from '../db/schema'
+
+/**
+ * Unpaid orders whose hold ran out: close their payment page, then give the stock back. The page is
+ * closed first, so a payment cannot slip in after the stock is released; if it was paid meanwhile,
+ * closing fails and the completed-payment event settles the order instead.
+ */
+export async function sweepExpiredReservations(graceMs = 120_000) {
+  const db = await useDB()
+  const due = await db.select().from(orders)
+    .where(and(eq(orders.status, 'awaiting_payment'), lt(orders.reservationExpiresAt, new Date(Date.now() - graceMs))))
+    .limit(50)
+  let released = 0
+  for (const order of due) {
+    if (order.checkoutSessionId) {
+      const session = await useStripe().checkout.sessions.retrieve(order.checkoutSessionId).catch(() => null)
+      if (session?.status === 'complete') continue
+      if (session?.status === 'open') {
+        const closed = await useStripe().checkout.sessions.expire(order.checkoutSessionId).then(() => true, () => false)
+        if (!closed) continue
+      }
+    }
+    const done = await db.transaction(tx => releaseReservation(tx, order.id, 'The hold on the stock ran out unpaid.'))
+    if (done) released++
+  }
+  return released
+}

@@ -1,0 +1,60 @@
+import { z } from 'zod'
+
+export const cartItemSchema = z.object({
+  slug: z.string({ error: 'slug is required' }).trim().min(1, 'slug is required').max(120, 'slug is too long'),
+  qty: z.number({ error: 'qty must be a number' }).int('qty must be a whole number').min(1, 'qty must be at least 1').max(50, 'qty must be at most 50'),
+  // The unit price the customer saw when filling the cart; a different price now is reported before paying.
+  seenUnitPriceMinor: z.number().int().nonnegative().optional(),
+})
+
+export const cartItemsField = z.array(cartItemSchema, { error: 'items must be a list' })
+  .min(1, 'items: the cart is empty')
+  .max(30, 'items: at most 30 different items in one order')
+  .refine(items => new Set(items.map(item => item.slug)).size === items.length, 'items: each product may appear once (use qty)')
+
+export const cartQuoteSchema = z.object({
+  items: cartItemsField,
+  zone: z.string().trim().max(60).optional(),
+  taxRegion: z.string().trim().max(60).optional(),
+})
+
+const addressText = (field: string, max = 120) => z.string({ error: issue => (issue.input === undefined ? `${field} is required` : `${field} must be text`) })
+  .trim().min(1, `${field} is required`).max(max, `${field} is too long`)
+
+export const shippingAddressSchema = z.object({
+  name: addressText('name'),
+  line1: addressText('line1'),
+  line2: z.string().trim().max(120, 'line2 is too long').optional(),
+  city: addressText('city', 80),
+  region: z.string().trim().max(80, 'region is too long').optional(),
+  postalCode: addressText('postalCode', 20),
+  country: addressText('country', 60),
+})
+
+export const checkoutSchema = z.object({
+  items: cartItemsField,
+  email: z.string({ error: 'email is required' }).trim().max(254, 'email is too long').pipe(z.email({ error: 'email is not a valid address' })).transform(v => v.toLowerCase()),
+  shippingAddress: shippingAddressSchema,
+  zone: z.string({ error: 'zone is required' }).trim().min(1, 'zone is required').max(60),
+  taxRegion: z.string().trim().max(60).optional(),
+  // After being told of a price change, the customer may accept the new prices and go on.
+  acceptChanges: z.boolean().optional(),
+})
+
+export type CartItemInput = z.infer<typeof cartItemSchema>
+export type CheckoutInput = z.infer<typeof checkoutSchema>
+
+export const orderStatusLabels = {
+  awaiting_payment: 'Awaiting payment',
+  paid: 'Paid',
+  in_production: 'Being made',
+  proof_pending: 'Proof to approve',
+  ready_to_pack: 'Ready to pack',
+  packed: 'Packed',
+  shipped: 'Shipped',
+  delivered: 'Delivered',
+  cancelled: 'Cancelled',
+  refunded: 'Refunded',
+} as const
+
+export type OrderStatus = keyof typeof orderStatusLabels
