@@ -20,6 +20,8 @@ export default defineNuxtConfig({
   runtimeConfig: {
     // Every key can be set at run time with NUXT_<KEY> (e.g. NUXT_DB_DIR, NUXT_SMTP_PORT).
     dbDir: '.data/db',
+    // Uploaded photos and audio samples (Nitro storage `uploads`, file system driver).
+    uploadsDir: '.data/uploads',
     migrationsDir,
     seedDemo: 'true',
     siteUrl: 'http://localhost:3000',
@@ -42,6 +44,7 @@ export default defineNuxtConfig({
     checkoutHoldMinutes: 30,
     public: {
       shopName: 'Groovewright demo workshop',
+      siteUrl: 'http://localhost:3000',
       // Only with a real key is the payment service's own script loaded in the browser.
       stripePublishableKey: '',
     },
@@ -51,6 +54,10 @@ export default defineNuxtConfig({
   ...(process.env.GW_BUILD_DIR ? { buildDir: process.env.GW_BUILD_DIR } : {}),
   nitro: {
     ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
+    storage: {
+      // Re-mounted at run time at `uploadsDir` (NUXT_UPLOADS_DIR) by server/utils/uploads.ts.
+      uploads: { driver: 'fs', base: '.data/uploads' },
+    },
     externals: {
       // PGlite loads its WASM and data files next to its own module at run time.
       external: ['@electric-sql/pglite'],
@@ -64,7 +71,8 @@ export default defineNuxtConfig({
     config: { stylistic: true },
   },
   image: {
-    provider: 'ipx',
+    // Photos are re-encoded on upload and served by /files/<id>; no resizing service in between.
+    provider: 'none',
   },
   tailwindcss: {
     cssPath: '~/assets/css/tailwind.css',

@@ -10,6 +10,7 @@ process.chdir(root)
 const port = Number(process.env.PORT ?? 3000)
 const mailSmtpPort = Number(process.env.MAIL_FAKE_SMTP_PORT ?? 2525)
 const mailHttpPort = Number(process.env.MAIL_FAKE_HTTP_PORT ?? 8025)
+const stripePort = Number(process.env.STRIPE_FAKE_PORT ?? 12111)
 const siteUrl = process.env.NUXT_SITE_URL ?? `http://localhost:${port}`
 
 function newestMtime(path) {
@@ -62,12 +63,18 @@ process.on('SIGINT', () => stop(0))
 process.on('SIGTERM', () => stop(0))
 
 run('mail', ['--import', 'tsx', 'fakes/mail/server.ts'], { MAIL_FAKE_SMTP_PORT: String(mailSmtpPort), MAIL_FAKE_HTTP_PORT: String(mailHttpPort) })
+run('payments', ['--import', 'tsx', 'fakes/stripe/server.ts'], {
+  STRIPE_FAKE_PORT: String(stripePort),
+  STRIPE_FAKE_WEBHOOK_URL: `http://127.0.0.1:${port}/api/webhooks/stripe`,
+})
 run('server', [`${outputDir}/server/index.mjs`], {
   PORT: String(port),
   HOST: process.env.HOST ?? '127.0.0.1',
   NUXT_SESSION_PASSWORD: sessionPassword,
   NUXT_SITE_URL: siteUrl,
+  NUXT_PUBLIC_SITE_URL: siteUrl,
   NUXT_SMTP_PORT: String(mailSmtpPort),
+  NUXT_STRIPE_API_PORT: String(stripePort),
 })
 
 const deadline = Date.now() + 120_000
@@ -85,6 +92,7 @@ console.log(`
 Groovewright is running.
   Shop:          ${siteUrl}
   Mail inbox:    http://127.0.0.1:${mailHttpPort}/  (every e-mail the shop sends lands here)
+  Payments:      local test checkout on http://127.0.0.1:${stripePort}/ (no real money moves)
   Demo sign-ins:`)
 for (const account of demoAccounts ?? []) console.log(`    ${account.role.padEnd(10)} ${account.email.padEnd(30)} ${account.password}`)
 console.log('\nPress Ctrl-C to stop.')

@@ -121,7 +121,10 @@ export function parseLength(input: string | number, options: LengthParseOptions 
     parseLengthFraction(input, options)
     return input
   }
-  return parseLengthFraction(input, options).valueOf()
+  const inches = parseLengthFraction(input, options).valueOf()
+  // Exact fractions of hundreds of digits become Infinity or NaN as numbers; no bench reads those.
+  if (!Number.isFinite(inches)) throw new LengthParseError(input, 'the number is too long to read')
+  return inches
 }
 
 export function inchesToMillimetres(inches: number): number {

@@ -35,6 +35,7 @@ export default defineConfig({
       MAIL_FAKE_SMTP_PORT: String(port + 1001),
       MAIL_FAKE_HTTP_PORT: String(port + 1002),
       MAIL_FAKE_DIR: `.data/browser-test-mail-${port}`,
+      STRIPE_FAKE_PORT: String(port + 1003),
     },
   },
 })

@@ -4,10 +4,12 @@ import { join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { setup, url } from '@nuxt/test-utils/e2e'
 import { startMailFake } from '../../fakes/mail/server'
+import { startStripeFake } from '../../fakes/stripe/server'
 
 export const rootDir = fileURLToPath(new URL('../..', import.meta.url))
 
 export type MailFake = Awaited<ReturnType<typeof startMailFake>>
+export const webhookSecret = 'whsec_test_harness_secret'
 
 /**
  * Starts the mail fake in this process on free ports, then the built server (`npm run build` first)
@@ -16,6 +18,7 @@ export type MailFake = Awaited<ReturnType<typeof startMailFake>>
 export async function useTestServer(env: Record<string, string> = {}) {
   const mailDir = mkdtempSync(join(tmpdir(), 'gw-mail-'))
   const mail = { fake: await startMailFake({ smtpPort: 0, httpPort: 0, dir: mailDir, quiet: true }), dir: mailDir }
+  const payments = await startStripeFake({ port: 0, webhookUrl: null, webhookSecret, quiet: true, retry: { attempts: 6, baseMs: 200 } })
   await setup({
     rootDir,
     build: false,
@@ -30,10 +33,13 @@ export async function useTestServer(env: Record<string, string> = {}) {
       NUXT_MAIL_POLL_MS: '150',
       NUXT_MAIL_MAX_BACKOFF_MS: '800',
       NUXT_SEED_DEMO: 'true',
+      NUXT_STRIPE_API_PORT: String(payments.port),
+      NUXT_STRIPE_WEBHOOK_SECRET: webhookSecret,
       ...env,
     },
   })
-  return mail
+  payments.setWebhookUrl(url('/api/webhooks/stripe'))
+  return Object.assign(mail, { payments })
 }
 
 export interface Answer<T = any> {

@@ -1,0 +1,96 @@
+// The maker's limits for a surface test and the verdict they give.
+import { z } from 'zod'
+
+const limitPair = (marginal: number, fail: number, what: string) =>
+  z
+    .object({ marginal: z.number().finite(), fail: z.number().finite() })
+    .refine(pair => pair.marginal <= pair.fail, { message: `${what}: the marginal limit must not be above the fail limit` })
+    .prefault({ marginal, fail })
+
+/**
+ * Limits set by the maker (shop settings). For each measure, higher is worse: above `marginal`
+ * the surface is marginal, above `fail` it fails. The defaults are shop choices — common
+ * practice, no source:
+ *  - A-weighted surface noise: marginal above −50 dBFS, fail above −44 dBFS (relative to the
+ *    shop's fixed playback and recording gain, which is what makes tests comparable);
+ *  - once-per-turn strength (rotaryDb, see rotary.ts): marginal above 15 dB, fail above 25 dB
+ *    (on steady noise about a 0.5 dB and a 2 dB peak-to-peak swell per turn);
+ *  - clicks: marginal above 6 per minute, fail above 15 per minute.
+ */
+export const surfaceThresholdsSchema = z
+  .object({
+    aWeightedDbfs: limitPair(-50, -44, 'A-weighted level'),
+    rotaryDb: limitPair(15, 25, 'Once-per-turn strength'),
+    clicksPerMinute: limitPair(6, 15, 'Clicks per minute'),
+  })
+  .prefault({})
+
+export type SurfaceThresholds = z.output<typeof surfaceThresholdsSchema>
+export type SurfaceThresholdsInput = z.input<typeof surfaceThresholdsSchema>
+
+export type SurfaceVerdict = 'pass' | 'marginal' | 'fail'
+
+export interface VerdictInputs {
+  aWeightedDbfs: number
+  rotaryDb: number | null
+  rotaryHz: number | null
+  clicksPerMinute: number
+  peakDbfs: number
+  durationS: number
+  minimumRotarySeconds: number
+}
+
+/** Below this sample peak the upload is taken as a recording of nothing (no signal reached it). */
+export const SILENCE_PEAK_DBFS = -100
+
+const format = (value: number, digits = 1) => value.toFixed(digits).replace('-', '−')
+
+export function judgeSurface(inputs: VerdictInputs, thresholds: SurfaceThresholds): { verdict: SurfaceVerdict, reasons: string[] } {
+  const reasons: string[] = []
+  let verdict: SurfaceVerdict = 'pass'
+  const raise = (to: SurfaceVerdict) => {
+    if (to === 'fail' || (to === 'marginal' && verdict === 'pass')) verdict = to
+  }
+  const check = (value: number, limits: { marginal: number, fail: number }, describe: (limitWord: string, limit: number) => string) => {
+    if (value > limits.fail) {
+      raise('fail')
+      reasons.push(describe('fail', limits.fail))
+    }
+    else if (value > limits.marginal) {
+      raise('marginal')
+      reasons.push(describe('marginal', limits.marginal))
+    }
+  }
+
+  if (inputs.peakDbfs <= SILENCE_PEAK_DBFS) {
+    raise('fail')
+    reasons.push(`The recording is silent (peak ${format(inputs.peakDbfs)} dBFS): check the pickup and the recording level, then record the play-through again.`)
+  }
+
+  check(
+    inputs.aWeightedDbfs,
+    thresholds.aWeightedDbfs,
+    (word, limit) => `Surface noise is ${format(inputs.aWeightedDbfs)} dBFS A-weighted, above the ${word} limit of ${format(limit)} dBFS.`,
+  )
+
+  if (inputs.rotaryDb === null) {
+    raise('marginal')
+    reasons.push(
+      `The recording is too short (${format(inputs.durationS)} s) to judge once-per-turn noise; record at least ${Math.ceil(inputs.minimumRotarySeconds)} s of the play-through.`,
+    )
+  }
+  else {
+    const rotaryDb = inputs.rotaryDb
+    const at = inputs.rotaryHz !== null ? ` at ${format(inputs.rotaryHz, 2)} Hz` : ''
+    check(rotaryDb, thresholds.rotaryDb, (word, limit) => `Once-per-turn noise${at} is ${format(rotaryDb)} dB, above the ${word} limit of ${format(limit)} dB.`)
+  }
+
+  check(
+    inputs.clicksPerMinute,
+    thresholds.clicksPerMinute,
+    (word, limit) => `${format(inputs.clicksPerMinute)} clicks per minute, above the ${word} limit of ${format(limit)} per minute.`,
+  )
+
+  if (verdict === 'pass') reasons.push('Surface noise, once-per-turn noise and clicks are all within the shop\'s limits.')
+  return { verdict, reasons }
+}

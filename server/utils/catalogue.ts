@@ -1,0 +1,57 @@
+import { and, asc, count, desc, eq, ilike, or, type SQL } from 'drizzle-orm'
+import { products } from '../db/schema'
+import type { Database } from './db'
+
+export type ProductRow = typeof products.$inferSelect
+
+export function fileUrl(id: string | null | undefined): string | null {
+  return id ? `/files/${id}` : null
+}
+
+/** The public face of a product: nothing the maker keeps to themselves. */
+export function publicProduct(product: ProductRow, currency: string) {
+  return {
+    slug: product.slug,
+    kind: product.kind,
+    title: product.title,
+    performer: product.performer,
+    description: product.description,
+    format: product.format,
+    rpm: product.rpm,
+    material: product.material,
+    condition: product.condition,
+    runningTimeS: product.runningTimeS,
+    priceMinor: product.priceMinor,
+    currency,
+    stock: product.stock,
+    madeToOrder: product.madeToOrder,
+    editionSize: product.editionSize,
+    photoUrls: product.photoFileIds.map(id => fileUrl(id)!),
+    photoAlt: product.photoAlt || `${product.title}, a ${product.format === 'two_minute' ? '2-minute' : '4-minute'} cylinder`,
+    sampleUrl: fileUrl(product.sampleFileId),
+    updatedAt: product.updatedAt,
+  }
+}
+
+const sortings = {
+  title: [asc(products.title)],
+  price_asc: [asc(products.priceMinor), asc(products.title)],
+  price_desc: [desc(products.priceMinor), asc(products.title)],
+  newest: [desc(products.createdAt), asc(products.title)],
+}
+
+export async function searchCatalogue(db: Database, query: CatalogueQuery) {
+  const filters: SQL[] = [eq(products.hidden, false), or(eq(products.kind, 'blank'), eq(products.kind, 'recorded'))!]
+  if (query.kind) filters.push(eq(products.kind, query.kind))
+  if (query.format) filters.push(eq(products.format, query.format))
+  if (query.q) {
+    const pattern = `%${query.q.replace(/[%_\\]/g, ch => `\\${ch}`)}%`
+    filters.push(or(ilike(products.title, pattern), ilike(products.performer, pattern), ilike(products.description, pattern), ilike(products.material, pattern))!)
+  }
+  const where = and(...filters)
+  const rows = await db.select().from(products).where(where).orderBy(...sortings[query.sort])
+    .limit(cataloguePageSize).offset((query.page - 1) * cataloguePageSize)
+  const [total] = await db.select({ n: count() }).from(products).where(where)
+  const settings = await getSetting('engine', db)
+  return { items: rows.map(row => publicProduct(row, settings.prices.currency)), total: total?.n ?? 0, page: query.page, pageSize: cataloguePageSize }
+}
