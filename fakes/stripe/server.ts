@@ -41,7 +41,7 @@ export interface StripeFakeOptions {
   apiVersion?: string
 }
 
-interface StoredResponse { fingerprint: string, endpoint: string, status: number, body: string, requestId: string }
+interface StoredResponse { fingerprint: string, endpoint: string, status: number, body: string, requestId: string, at: number }
 
 const QS_OPTIONS = { depth: 10, arrayLimit: 1000, parameterLimit: 5000, allowDots: false } as const
 const MAX_BODY = 1024 * 1024
@@ -261,7 +261,14 @@ export async function startStripeFake(options: StripeFakeOptions = {}) {
       keep = !error.validation
       body = JSON.stringify({ error: error.body }, null, 2)
     }
-    if (key !== undefined && keep) idempotency.set(key, { fingerprint, endpoint, status, body, requestId })
+    if (key !== undefined && keep) {
+      idempotency.set(key, { fingerprint, endpoint, status, body, requestId, at: Date.now() })
+      // Keys are kept 24 hours, as by the real API (and at most 20 000 of them here).
+      for (const [oldKey, stored] of idempotency) {
+        if (idempotency.size <= 20_000 && stored.at > Date.now() - 24 * 3600_000) break
+        idempotency.delete(oldKey)
+      }
+    }
     send(status, body, key !== undefined ? { 'idempotency-key': key } : {})
   }
 

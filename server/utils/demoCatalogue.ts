@@ -28,8 +28,10 @@ interface DemoProduct extends Omit<NewProduct, 'photoFileIds' | 'sampleFileId'> 
 
 const SAMPLE_RATE = 22_050
 const SAMPLE_SECONDS = 6
+// Drawn on a 960 × 640 canvas, rendered at 810 × 540: enough for the shop, and quick to seed.
 const PHOTO_WIDTH = 960
 const PHOTO_HEIGHT = 640
+const PHOTO_SCALE = 810 / 960
 
 const waxColours: Record<string, string> = { stearic_acid: '#1f1a17', paraffin: '#b8792a' }
 
@@ -248,12 +250,12 @@ function cartonSvg(palette: Palette, x: number, top: number, width: number, heig
     <ellipse cx="${cx}" cy="${top - lidRy}" rx="${width / 2 + 6}" ry="${lidRy}" fill="${shade(palette.box, 0.18)}"/>`
 }
 
-/** A cylinder lying on its side: grooved body, the open near end showing the tapered bore. */
-function cylinderSvg(palette: Palette, x0: number, x1: number, cy: number, radius: number, id: string): string {
+/** A cylinder lying on its side: body (grooved once recorded), the open near end showing the tapered bore. */
+function cylinderSvg(palette: Palette, x0: number, x1: number, cy: number, radius: number, grooved: boolean, id: string): string {
   const endRx = radius * 0.36
   const grooves: string[] = []
-  for (let x = x0 + 10; x < x1 - 4; x += 5) {
-    grooves.push(`<line x1="${x}" y1="${cy - radius + 3}" x2="${x}" y2="${cy + radius - 3}" stroke="${(x / 5) % 2 ? '#ffffff' : '#000000'}" stroke-opacity="${(x / 5) % 2 ? 0.07 : 0.12}" stroke-width="1.4"/>`)
+  for (let x = x0 + 10; grooved && x < x1 - 4; x += 6) {
+    grooves.push(`<line x1="${x}" y1="${cy - radius + 3}" x2="${x}" y2="${cy + radius - 3}" stroke="${(x / 6) % 2 ? '#ffffff' : '#000000'}" stroke-opacity="${(x / 6) % 2 ? 0.07 : 0.12}" stroke-width="1.4"/>`)
   }
   return `
     <defs>
@@ -263,9 +265,12 @@ function cylinderSvg(palette: Palette, x0: number, x1: number, cy: number, radiu
         <stop offset="0.4" stop-color="${palette.wax}"/>
         <stop offset="1" stop-color="${shade(palette.wax, -0.55)}"/>
       </linearGradient>
-      <filter id="${id}-blur"><feGaussianBlur stdDeviation="12"/></filter>
+      <radialGradient id="${id}-shadow">
+        <stop offset="0.4" stop-color="#000" stop-opacity="0.28"/>
+        <stop offset="1" stop-color="#000" stop-opacity="0"/>
+      </radialGradient>
     </defs>
-    <ellipse cx="${(x0 + x1) / 2}" cy="${cy + radius + 18}" rx="${(x1 - x0) / 2 + 30}" ry="22" fill="#000" opacity="0.22" filter="url(#${id}-blur)"/>
+    <ellipse cx="${(x0 + x1) / 2}" cy="${cy + radius + 14}" rx="${(x1 - x0) / 2 + 50}" ry="30" fill="url(#${id}-shadow)"/>
     <ellipse cx="${x1}" cy="${cy}" rx="${endRx}" ry="${radius}" fill="${shade(palette.wax, -0.5)}"/>
     <rect x="${x0}" y="${cy - radius}" width="${x1 - x0}" height="${radius * 2}" fill="url(#${id}-body)"/>
     ${grooves.join('')}
@@ -288,7 +293,7 @@ function backdropSvg(palette: Palette, id: string): string {
 }
 
 function svgDocument(body: string): Buffer {
-  return Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="${PHOTO_WIDTH}" height="${PHOTO_HEIGHT}" viewBox="0 0 ${PHOTO_WIDTH} ${PHOTO_HEIGHT}">${body}</svg>`)
+  return Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="${PHOTO_WIDTH * PHOTO_SCALE}" height="${PHOTO_HEIGHT * PHOTO_SCALE}" viewBox="0 0 ${PHOTO_WIDTH} ${PHOTO_HEIGHT}">${body}</svg>`)
 }
 
 /** The product's photos as SVG: the cylinder before its carton, and for records the carton alone. */
@@ -296,7 +301,7 @@ export function demoPhotoSvgs(product: DemoProduct): Buffer[] {
   const plain = product.kind === 'blank'
   const scene = svgDocument(`${backdropSvg(product.palette, 'a')}
     ${cartonSvg(product.palette, 560, 120, 230, 380, plain, 'a-box')}
-    ${cylinderSvg(product.palette, 170, 610, 430, 92, 'a-cyl')}`)
+    ${cylinderSvg(product.palette, 170, 610, 430, 92, !plain, 'a-cyl')}`)
   if (plain) return [scene]
   const carton = svgDocument(`${backdropSvg(product.palette, 'b')}
     ${cartonSvg(product.palette, 330, 110, 300, 400, false, 'b-box')}`)
@@ -368,11 +373,11 @@ export async function seedDemoCatalogue(db: Database) {
   const missing = demoCatalogue().filter(product => !present.has(product.slug))
   if (missing.length === 0) return
 
-  const prepared = await Promise.all(missing.map(async product => ({
-    product,
-    photos: await Promise.all(demoPhotoSvgs(product).map(renderPhoto)),
-    sample: product.kind === 'recorded' ? demoSampleWav(product) : null,
-  })))
+  // sharp draws on its own threads while the samples are computed here.
+  const drawing = missing.map(product => Promise.all(demoPhotoSvgs(product).map(renderPhoto)))
+  const samples = missing.map(product => product.kind === 'recorded' ? demoSampleWav(product) : null)
+  const photoSets = await Promise.all(drawing)
+  const prepared = missing.map((product, index) => ({ product, photos: photoSets[index]!, sample: samples[index]! }))
   const storage = await uploadStorage()
   await Promise.all(prepared.flatMap(({ product, photos, sample }) => [
     ...photos.map((photo, index) => storage.setItemRaw(demoPhotoId(product.slug, index), photo)),

@@ -1,6 +1,6 @@
 import type Stripe from 'stripe'
 import { and, eq, sql } from 'drizzle-orm'
-import { orders, products, refunds, orderItems } from '../db/schema'
+import { orderEvents, orderItems, orders, products, refunds } from '../db/schema'
 import type { Transaction } from './db'
 
 interface Handled {
@@ -61,11 +61,13 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       return { outcome: released ? 'released' : `ignored: order is ${order.status}`, orderId: order.id }
     }
     case 'payment_intent.payment_failed': {
+      // A declined card may be tried again on the same payment page, so the hold stays until the
+      // page expires (checkout.session.expired releases it); the customer is told either way.
       const intent = paymentEvent.data.object
       const order = await findOrder(tx, { number: intent.metadata?.order_number })
       if (!order) return { outcome: 'no such order' }
-      const released = await releaseReservation(tx, order.id, `Payment failed: ${intent.last_payment_error?.message ?? 'declined'}`)
-      if (!released) return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
+      if (order.status !== 'awaiting_payment') return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
+      await tx.insert(orderEvents).values({ orderId: order.id, fromStatus: order.status, toStatus: order.status, note: `Card declined: ${intent.last_payment_error?.message ?? 'no reason given'}` })
       await queueMail(tx, {
         to: order.email,
         subject: `Payment for order ${order.number} did not go through`,
@@ -74,17 +76,12 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
           heading: 'Your payment did not go through',
           paragraphs: [
             `The card payment for order ${order.number} was declined${intent.last_payment_error?.message ? ` (${intent.last_payment_error.message})` : ''}. Nothing was charged.`,
-            'The cylinders we were holding for you are back on sale; your cart is still in your browser if you would like to try again.',
+            'You can try again, with the same or another card, until the hold on your cylinders runs out (30 minutes after checkout); after that they go back on sale and your cart is still in your browser.',
           ],
           action: { label: 'Back to your cart', url: `${useRuntimeConfig().siteUrl}/cart` },
         },
       })
-      const sessionId = order.checkoutSessionId
-      return {
-        outcome: 'released after failure',
-        orderId: order.id,
-        followUp: async () => sessionId && await useStripe().checkout.sessions.expire(sessionId).catch(() => undefined),
-      }
+      return { outcome: 'declined; hold kept until the page expires', orderId: order.id }
     }
     case 'charge.refunded': {
       const charge = paymentEvent.data.object

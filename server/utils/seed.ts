@@ -17,9 +17,12 @@ export async function seedDemo(db: Database) {
         .onConflictDoNothing()
     }
   })
+  await seedDemoCatalogue(db)
 }
 
 export async function seedIfEmpty(db: Database) {
   const [row] = await db.select({ count: sql<number>`count(*)::int` }).from(users)
   if ((row?.count ?? 0) === 0) await seedDemo(db)
+  // A database from before the catalogue existed gets the demo catalogue once, while it has no products.
+  else if (await productCount(db) === 0) await seedDemoCatalogue(db)
 }

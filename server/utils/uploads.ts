@@ -1,5 +1,6 @@
 import { randomBytes } from 'node:crypto'
 import { resolve } from 'node:path'
+import { inArray } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import sharp from 'sharp'
 import type { Storage } from 'unstorage'
@@ -233,4 +234,20 @@ export function parseByteRange(header: string | undefined, size: number): { star
 export function inlineDisposition(label: string): string {
   const plain = label.replace(/[^\x20-\x7E]/g, '_').replace(/["\\]/g, '_')
   return `inline; filename="${plain}"; filename*=UTF-8''${encodeURIComponent(label)}`
+}
+
+/**
+ * Checks that the ids a product is given are uploaded photos and an audio sample, then makes them
+ * public: a product's pictures and sample are heard and seen in the shop by anyone.
+ */
+export async function publishProductFiles(tx: Database | Transaction, photoFileIds: string[] | undefined, sampleFileId: string | null | undefined) {
+  const wanted = [...(photoFileIds ?? []), ...(sampleFileId ? [sampleFileId] : [])]
+  if (wanted.length === 0) return
+  const rows = await tx.select({ id: files.id, purpose: files.purpose }).from(files).where(inArray(files.id, wanted))
+  const purposeOf = new Map(rows.map(row => [row.id, row.purpose]))
+  for (const id of photoFileIds ?? []) {
+    if (purposeOf.get(id) !== 'photo') throw fieldError('photoFileIds', `no uploaded photo has the id ${id}`)
+  }
+  if (sampleFileId && purposeOf.get(sampleFileId) !== 'audio') throw fieldError('sampleFileId', `no uploaded audio sample has the id ${sampleFileId}`)
+  await tx.update(files).set({ isPublic: true }).where(inArray(files.id, wanted))
 }

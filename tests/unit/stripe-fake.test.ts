@@ -2,7 +2,7 @@
 // local webhook receiver that checks signatures with the SDK's own `constructEvent`.
 import { createServer, type Server } from 'node:http'
 import Stripe from 'stripe'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import { startStripeFake, type StripeFake } from '../../fakes/stripe/server'
 
 const SECRET = 'whsec_unit_test_secret'
@@ -29,9 +29,9 @@ async function waitFor<T>(probe: () => T | undefined | false, timeoutMs = 3000):
 
 const deliveredOf = (predicate: (event: Stripe.Event) => boolean) => received.filter(item => predicate(item.event))
 
-async function control(path: string, body?: unknown) {
+async function control(method: 'GET' | 'POST', path: string, body?: unknown) {
   const response = await fetch(`${fake.url}${path}`, {
-    method: body === undefined && !path.includes('/complete') && !path.includes('/decline') && !path.includes('/expire') && !path.includes('/reset') ? 'GET' : 'POST',
+    method,
     headers: { 'content-type': 'application/json' },
     ...(body === undefined ? {} : { body: JSON.stringify(body) }),
   })
@@ -125,7 +125,7 @@ describe('checkout sessions through the SDK', () => {
 
   it('completes a session: a signed checkout.session.completed the SDK verifies, a succeeded payment intent', async () => {
     const session = await stripe.checkout.sessions.create(sessionParams())
-    const { status, json } = await control(`/_fake/sessions/${session.id}/complete`)
+    const { status, json } = await control('POST', `/_fake/sessions/${session.id}/complete`)
     expect(status).toBe(200)
     const eventId = json.event.id as string
     const delivered = await waitFor(() => received.find(item => item.event.id === eventId))
@@ -157,7 +157,7 @@ describe('checkout sessions through the SDK', () => {
 
   it('refunds part then the rest, with cumulative charge.refunded events, and refuses more', async () => {
     const session = await stripe.checkout.sessions.create(sessionParams({ metadata: { order: 'GW-1002' }, payment_intent_data: { metadata: { order: 'GW-1002' } } }))
-    const { json } = await control(`/_fake/sessions/${session.id}/complete`)
+    const { json } = await control('POST', `/_fake/sessions/${session.id}/complete`)
     const intentId = json.payment_intent.id as string
 
     const part = await stripe.refunds.create({ payment_intent: intentId, amount: 1000, reason: 'requested_by_customer', metadata: { note: 'scratched' } }, { idempotencyKey: 'refund-1' })
@@ -184,7 +184,7 @@ describe('checkout sessions through the SDK', () => {
 
   it('refuses a refund larger than what remains', async () => {
     const session = await stripe.checkout.sessions.create(sessionParams())
-    const { json } = await control(`/_fake/sessions/${session.id}/complete`)
+    const { json } = await control('POST', `/_fake/sessions/${session.id}/complete`)
     const error = await stripe.refunds.create({ payment_intent: json.payment_intent.id, amount: 99_999 }).catch(caught => caught)
     expect(error).toBeInstanceOf(Stripe.errors.StripeInvalidRequestError)
     expect(error.param).toBe('amount')
@@ -196,8 +196,24 @@ describe('checkout sessions through the SDK', () => {
     const expired = await stripe.checkout.sessions.expire(session.id)
     expect(expired.status).toBe('expired')
     const event = await waitFor(() => received.find(item => item.event.type === 'checkout.session.expired' && (item.event.data.object as Stripe.Checkout.Session).id === session.id))
-    expect(event.event.request.id).toMatch(/^req_/)
+    expect(event.event.request?.id).toMatch(/^req_/)
     await expect(stripe.checkout.sessions.expire(session.id)).rejects.toThrow(/Only Checkout Sessions with a status in \["open"\] can be expired/)
+  })
+  it('expires an open session by itself once expires_at has passed', async () => {
+    const session = await stripe.checkout.sessions.create(sessionParams({ expires_at: Math.floor(Date.now() / 1000) + 30 * 60 }))
+    vi.useFakeTimers({ toFake: ['Date'] })
+    try {
+      vi.setSystemTime(Date.now() + 31 * 60_000)
+      const event = await waitFor(() => received.find(item => item.event.type === 'checkout.session.expired' && (item.event.data.object as Stripe.Checkout.Session).id === session.id))
+      expect(event.event.request).toEqual({ id: null, idempotency_key: null })
+    }
+    finally {
+      vi.useRealTimers()
+    }
+    expect((await stripe.checkout.sessions.retrieve(session.id)).status).toBe('expired')
+    const page = await (await fetch(`${fake.url}/pay/${session.id}`)).text()
+    expect(page).toContain('expired')
+    expect(page).not.toContain('<button')
   })
 })
 
@@ -205,24 +221,24 @@ describe('webhook delivery', () => {
   it('retries after a 500 and delivers the same event', async () => {
     const session = await stripe.checkout.sessions.create(sessionParams())
     answers.push(500)
-    const { json } = await control(`/_fake/sessions/${session.id}/complete`)
+    const { json } = await control('POST', `/_fake/sessions/${session.id}/complete`)
     const eventId = json.event.id as string
     await waitFor(() => received.find(item => item.event.id === eventId))
-    const { json: log } = await control(`/_fake/deliveries?event=${eventId}`)
+    const { json: log } = await control('GET', `/_fake/deliveries?event=${eventId}`)
     expect(log.data.map((entry: any) => [entry.attempt, entry.status])).toEqual([[1, 500], [2, 200]])
-    const { json: events } = await control('/_fake/events')
+    const { json: events } = await control('GET', '/_fake/events')
     expect(events.data.find((entry: any) => entry.id === eventId).delivery).toBe('delivered')
   })
 
   it('holds events and delivers them in the order asked', async () => {
     const a = await stripe.checkout.sessions.create(sessionParams())
     const b = await stripe.checkout.sessions.create(sessionParams())
-    const completed = (await control(`/_fake/sessions/${a.id}/complete?deliver=false`)).json.event.id as string
-    const expired = (await control(`/_fake/sessions/${b.id}/expire?deliver=false`)).json.event.id as string
+    const completed = (await control('POST', `/_fake/sessions/${a.id}/complete?deliver=false`)).json.event.id as string
+    const expired = (await control('POST', `/_fake/sessions/${b.id}/expire?deliver=false`)).json.event.id as string
     await new Promise(resolve => setTimeout(resolve, 50))
     expect(received.some(item => item.event.id === completed || item.event.id === expired)).toBe(false)
 
-    const { json } = await control('/_fake/deliver', { eventIds: [expired, completed] })
+    const { json } = await control('POST', '/_fake/deliver', { eventIds: [expired, completed] })
     expect(json.attempts.map((entry: any) => entry.status)).toEqual([200, 200])
     const order = received.filter(item => item.event.id === completed || item.event.id === expired).map(item => item.event.id)
     expect(order).toEqual([expired, completed])
@@ -230,8 +246,8 @@ describe('webhook delivery', () => {
 
   it('sends duplicates with the same id, and resends with a wrong secret, stale timestamp or tampered body', async () => {
     const session = await stripe.checkout.sessions.create(sessionParams())
-    const eventId = (await control(`/_fake/sessions/${session.id}/complete?wait=true`)).json.event.id as string
-    const { json } = await control(`/_fake/events/${eventId}/duplicate`, { times: 3 })
+    const eventId = (await control('POST', `/_fake/sessions/${session.id}/complete?wait=true`)).json.event.id as string
+    const { json } = await control('POST', `/_fake/events/${eventId}/duplicate`, { times: 3 })
     expect(json.attempts).toHaveLength(3)
     const copies = received.filter(item => item.event.id === eventId)
     expect(copies).toHaveLength(4)
@@ -240,12 +256,23 @@ describe('webhook delivery', () => {
     const verify = (item: Received | undefined) => () => stripe.webhooks.constructEvent(item!.body, item!.signature, SECRET)
     for (const options of [{ secret: 'whsec_other' }, { timestamp: Math.floor(Date.now() / 1000) - 600 }, { tamper: true }]) {
       const before = received.length
-      await control(`/_fake/events/${eventId}/resend`, options)
+      await control('POST', `/_fake/events/${eventId}/resend`, options)
       expect(verify(received[before])).toThrow(Stripe.errors.StripeSignatureVerificationError)
     }
     const before = received.length
-    await control(`/_fake/events/${eventId}/resend`, {})
+    await control('POST', `/_fake/events/${eventId}/resend`, {})
     expect(verify(received[before])().id).toBe(eventId)
+  })
+  it('forges an event for an object (an expired after a completed, for the same session)', async () => {
+    const session = await stripe.checkout.sessions.create(sessionParams())
+    const completed = (await control('POST', `/_fake/sessions/${session.id}/complete?wait=true`)).json.event.id as string
+    const { status, json } = await control('POST', '/_fake/events', { type: 'checkout.session.expired', objectId: session.id, patch: { status: 'expired' } })
+    expect(status).toBe(200)
+    const late = await waitFor(() => received.find(item => item.event.id === json.id))
+    expect(late.event.type).toBe('checkout.session.expired')
+    expect(late.event.data.object).toMatchObject({ id: session.id, status: 'expired', payment_status: 'paid' })
+    expect(received.findIndex(item => item.event.id === completed)).toBeLessThan(received.indexOf(late))
+    expect((await stripe.checkout.sessions.retrieve(session.id)).status).toBe('complete')
   })
 })
 

@@ -2,8 +2,8 @@
 // rate we accept (22.05–96 kHz).
 //
 // Why not the textbook bilinear transform: it squeezes the whole analog axis into 0…fs/2, so at
-// 44.1 kHz the double pole at 12.2 kHz lands visibly low and the response is already about 0.6 dB
-// short at 10 kHz and several dB short at 16 kHz.
+// 44.1 kHz the response at 10 kHz is the analog one at 12.1 kHz — 1.5 dB short — and at 16 kHz
+// it is 8.5 dB short.
 //
 // The design used here, computed per sample rate (a few ms, cached):
 //   * the four zeros at s = 0 map exactly to z = 1;
@@ -22,7 +22,7 @@
 //   32 kHz ±0.13 dB and 22.05 kHz ±0.10 dB up to 0.98·Nyquist, where the analog curve is still
 //   falling steeply and a sixth-order recursive filter can only approximate it.
 // So at 44.1 kHz even 16 kHz (0.72 of Nyquist) is within the ±0.1 dB held at the other points.
-// Above 20 kHz (only at 88.2/96 kHz) the fit is not asked to follow the curve; there the
+// Above 20 kHz (at 48 kHz and up) the fit is not asked to follow the curve; there the
 // weighting is below −9 dB and the deviation reaches about 2 dB right at Nyquist.
 
 /** IEC 61672-1 Annex E pole frequencies in Hz. */

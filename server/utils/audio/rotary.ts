@@ -7,7 +7,7 @@
 //  2. A 5-frame running median removes single-frame spikes (clicks) without touching a swell
 //     whose period is 375 ms or more.
 //  3. Remove the mean and the linear trend (a level that drifts across the cylinder is not
-//     rotary noise), apply a Hann window, zero-pad to ≥ 4× the length and take the power spectral
+//     rotary noise), apply a Hann window, zero-pad to ≥ 2× the length and take the power spectral
 //     density S(f) (dB²/Hz, one-sided, scaled so that ∫S df is the mean square).
 //  4. The fundamental: the strongest bin within ±6 % of f0 = rpm/60 (real machines run a little
 //     off their nominal speed), giving f̂. Lines: the Hann main lobe (±2 resolution bins) around
@@ -109,7 +109,7 @@ export function measureRotary(frameEnergy: Float64Array, frameLength: number, fr
   }
   const slope = slopeDenominator > 0 ? slopeNumerator / slopeDenominator : 0
 
-  const size = nextPowerOfTwo(4 * frames)
+  const size = nextPowerOfTwo(2 * frames)
   const windowed = new Float64Array(size)
   const window = hannWindow(frames)
   let windowPower = 0

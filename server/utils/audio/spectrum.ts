@@ -6,7 +6,7 @@
 // To keep the analysis fast, at most MAX_SEGMENTS segments are taken, spread evenly over the
 // whole recording rather than overlapping end to end (a 150 s file has ~800 half-overlapping
 // segments; FFT-ing them all would take longer than the rest of the analysis). For surface noise
-// the average of 32 segments is within a fraction of a dB of the average of all of them (each
+// the average of 24 segments is within a fraction of a dB of the average of all of them (each
 // 1/3-octave band sums many bins), and this is a plot, not a measurement the verdict uses.
 // Band levels follow the AES17 convention (a full-scale sine inside a band reads 0 dB).
 import { addPowerSpectrum, hannWindow, nextPowerOfTwo } from './fftPower'
@@ -18,7 +18,7 @@ export interface SpectrumBand {
   db: number
 }
 
-export const MAX_SEGMENTS = 32
+export const MAX_SEGMENTS = 24
 
 export function thirdOctaveCentres(sampleRate: number): number[] {
   const nyquist = sampleRate / 2

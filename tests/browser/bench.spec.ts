@@ -1,0 +1,109 @@
+import AxeBuilder from '@axe-core/playwright'
+import { expect, test, type Locator, type Page } from '@playwright/test'
+import { demoAccounts } from '../../shared/utils/demoAccounts'
+
+const shots = 'tests/browser/report'
+
+async function signInAsMaker(page: Page) {
+  const maker = demoAccounts.find(a => a.role === 'maker')!
+  await page.goto('/signin')
+  await page.getByLabel('E-mail').fill(maker.email)
+  await page.getByLabel('Password').fill(maker.password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
+}
+
+/** The large figure of a readout in an answer, found by its name. */
+const readout = (answer: Locator, label: string) => answer.locator('dl > div').filter({ hasText: label }).locator('dd').first()
+
+async function planReaming(page: Page) {
+  const reaming = page.getByRole('region', { name: 'Reaming plan' })
+  await reaming.getByLabel('Overhang showing now').fill('3/16')
+  await reaming.getByLabel('Wanted overhang').fill('7/16')
+  await reaming.getByRole('button', { name: 'Plan the reaming' }).click()
+  const answer = page.getByTestId('reaming-answer')
+  // 3/16 in showing with 7/16 in wanted: 4 more reamings (common practice, no source).
+  await expect(readout(answer, 'Reamings to go')).toHaveText('4')
+  // 7/16 in = 0.4375 in = 11.1125 mm (NIST 1 in = 25.4 mm exactly).
+  await expect(answer).toContainText('7/16 in')
+  await expect(answer).toContainText('11.11 mm')
+  await expect(answer).toContainText('Over-reaming cannot be undone')
+}
+
+async function planShaving(page: Page) {
+  const shaving = page.getByRole('region', { name: 'Shaving plan' })
+  await shaving.getByLabel('Largest diameter read').fill('2.200')
+  await shaving.getByLabel('Smallest diameter read').fill('2.194')
+  await shaving.getByLabel('In-feed wheel per pass (degrees)').fill('45')
+  await shaving.getByRole('button', { name: 'Plan the shaving' }).click()
+  const answer = page.getByTestId('shaving-answer')
+  // (2.200 − 2.194) ÷ 2 = 0.003 in, and 45° of wheel feeds 0.003 in (common practice, no source): one pass.
+  await expect(readout(answer, 'Passes')).toHaveText('1')
+  await expect(answer).toContainText('0.0030 in · 0.076 mm a pass')
+  // 2.200 − 2 × 0.003 = 2.194 in = 55.7276 mm (NIST).
+  await expect(readout(answer, 'Diameter after')).toHaveText('2.194 in')
+  await expect(answer).toContainText('55.73 mm')
+}
+
+test('the maker plans a reaming and a shaving from typed fractions and reads millimetres beside inches', async ({ page }) => {
+  await page.setViewportSize({ width: 1280, height: 900 })
+  await signInAsMaker(page)
+  await page.goto('/workshop')
+  await page.getByRole('link', { name: /Bench calculators/ }).click()
+  await expect(page).toHaveURL(/\/workshop\/bench$/)
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Bench calculators')
+
+  await planReaming(page)
+  await planShaving(page)
+
+  // The cautions where cutting is involved, ending with local codes and licensed practice.
+  const safety = page.getByRole('complementary', { name: /reamer and the shaving cutter/ })
+  await expect(safety).toContainText('eye protection')
+  await expect(safety).toContainText('fingers clear of the cutter')
+  await expect(safety).toContainText('never blow them off')
+  await expect(safety).toContainText('local codes and licensed practice come first')
+  await expect(page.getByRole('region', { name: 'Shaving plan' })).toContainText('Cut no deeper than needed')
+
+  // The heat calculator opens with an answer, its taper marked unverified.
+  await expect(page.getByTestId('heat-fit-taper')).toContainText('3/8 in per foot')
+  await expect(page.getByTestId('heat-fit-taper')).toContainText('UNVERIFIED')
+
+  await page.screenshot({ path: `${shots}/bench-desktop.png`, fullPage: true })
+  const axe = await new AxeBuilder({ page }).analyze()
+  expect(axe.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')).toEqual([])
+})
+
+test('a mistyped fraction is marked on its own field, and the plan follows once it is right', async ({ page }) => {
+  await signInAsMaker(page)
+  await page.goto('/workshop/bench')
+  const reaming = page.getByRole('region', { name: 'Reaming plan' })
+  const overhang = reaming.getByLabel('Overhang showing now')
+  await overhang.fill('7/0')
+  await reaming.getByLabel('Wanted overhang').fill('7/16')
+  await overhang.press('Enter')
+  await expect(reaming.getByRole('alert')).toContainText('Please correct the marked fields.')
+  await expect(overhang).toHaveAttribute('aria-invalid', 'true')
+  await expect(overhang).toHaveAccessibleDescription(/division by zero/)
+  await overhang.fill('1 3/16')
+  await overhang.press('Enter')
+  await expect(overhang).not.toHaveAttribute('aria-invalid', 'true')
+  // 1 3/16 in showing with 7/16 in wanted is already 3/4 in past the fit: no reaming.
+  await expect(readout(page.getByTestId('reaming-answer'), 'Reamings to go')).toHaveText('0')
+  await expect(page.getByTestId('reaming-answer')).toContainText('past the wanted fit')
+})
+
+test('the bench works at phone width: no sideways scrolling, answers readable, axe finds nothing serious', async ({ page }) => {
+  await page.setViewportSize({ width: 390, height: 844 })
+  await signInAsMaker(page)
+  await page.goto('/workshop/bench')
+  await planReaming(page)
+  await planShaving(page)
+  await page.getByRole('region', { name: 'Playing time' }).getByRole('button', { name: 'Work out the time' }).click()
+  // 3.6 in × 100 ÷ 160 rpm = 2.25 min = 2 min 15 s (university sound archives' cylinder notes; arithmetic).
+  await expect(readout(page.getByTestId('playing-time-answer'), 'Playing time')).toHaveText('2 min 15 s')
+  const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)
+  expect(overflow).toBeLessThanOrEqual(0)
+  await page.screenshot({ path: `${shots}/bench-phone.png`, fullPage: true })
+  const axe = await new AxeBuilder({ page }).analyze()
+  expect(axe.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')).toEqual([])
+})
