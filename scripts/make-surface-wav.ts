@@ -46,11 +46,13 @@ function parseOptions(args: string[]): Partial<Record<StringOption, string>> & P
     const [name, inline] = arg.slice(2).split(/=(.*)/s, 2) as [string, string | undefined]
     if ((BOOLEAN_OPTIONS as readonly string[]).includes(name)) {
       values[name as BooleanOption] = true
-    } else if ((STRING_OPTIONS as readonly string[]).includes(name)) {
+    }
+    else if ((STRING_OPTIONS as readonly string[]).includes(name)) {
       const value = inline ?? args[++i]
       if (value === undefined) throw new Error(`--${name} needs a value`)
       values[name as StringOption] = value
-    } else {
+    }
+    else {
       throw new Error(`unknown option --${name}`)
     }
   }
@@ -88,14 +90,15 @@ function main(): void {
   const bytes = makeSurfaceWav(options)
   writeFileSync(values.out, bytes)
   console.log(
-    `${values.out}: ${options.seconds} s, ${options.sampleRate} Hz, ${values.float ? '32-bit float' : `${bits}-bit`}, ${channels === 1 ? 'mono' : 'stereo'}, ` +
-      `noise ${options.levelDbfs} dBFS, swell ${options.swellDepth} at ${options.rpm} rpm, ${options.clicks} clicks (${bytes.length} bytes)`,
+    `${values.out}: ${options.seconds} s, ${options.sampleRate} Hz, ${values.float ? '32-bit float' : `${bits}-bit`}, ${channels === 1 ? 'mono' : 'stereo'}, `
+    + `noise ${options.levelDbfs} dBFS, swell ${options.swellDepth} at ${options.rpm} rpm, ${options.clicks} clicks (${bytes.length} bytes)`,
   )
 }
 
 try {
   main()
-} catch (error) {
+}
+catch (error) {
   console.error(error instanceof Error ? error.message : error)
   console.error(usage)
   process.exit(1)

@@ -3,6 +3,8 @@
 // audio sample is made by the WAV generator; nothing comes from elsewhere.
 import sharp from 'sharp'
 import { count } from 'drizzle-orm'
+import { cylinderFormats, standardCylinderRpm } from '#shared/utils/cylinder'
+import { defaultEngineSettings } from '#shared/utils/engineSettings'
 import { files, productChanges, products } from '../db/schema'
 import { encodeWav, makeSeededRandom, makeSurfaceSignal, makeToneSignal } from './audio/synth'
 import type { Database } from './db'
@@ -369,6 +371,7 @@ export const demoSampleId = (slug: string) => `demo-${slug}-sample`
  * through the uploads storage under fixed ids, so seeding again overwrites rather than piles up.
  */
 export async function seedDemoCatalogue(db: Database) {
+  const started = performance.now()
   const present = new Set((await db.select({ slug: products.slug }).from(products)).map(row => row.slug))
   const missing = demoCatalogue().filter(product => !present.has(product.slug))
   if (missing.length === 0) return
@@ -401,6 +404,8 @@ export async function seedDemoCatalogue(db: Database) {
       ])
     }
   })
+  const photoCount = prepared.reduce((sum, entry) => sum + entry.photos.length, 0)
+  console.info(`[seed] demo catalogue: ${prepared.length} products, ${photoCount} photos, ${prepared.filter(entry => entry.sample).length} samples in ${((performance.now() - started) / 1000).toFixed(1)} s`)
 }
 
 export async function productCount(db: Database): Promise<number> {

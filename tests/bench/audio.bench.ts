@@ -25,7 +25,8 @@ function procStatusKb(field: string): number | null {
   try {
     const match = readFileSync('/proc/self/status', 'utf8').match(new RegExp(`^${field}:\\s+(\\d+) kB`, 'm'))
     return match ? Number(match[1]) : null
-  } catch {
+  }
+  catch {
     return null
   }
 }
@@ -34,7 +35,8 @@ function resetPeakRss(): boolean {
   try {
     writeFileSync('/proc/self/clear_refs', '5')
     return true
-  } catch {
+  }
+  catch {
     return false
   }
 }
@@ -62,7 +64,8 @@ try {
   if (peakKb !== null && rssBeforeKb !== null) {
     extraBytes = (peakKb - rssBeforeKb) * 1024
     console.log(`memory: peak RSS during analysis − RSS before = ${mb(extraBytes)} = ${(extraBytes / bytes.length).toFixed(2)} × file size (goal ≤ 4)`)
-  } else {
+  }
+  else {
     console.log('memory: peak RSS not available on this platform')
   }
   console.log(`memory: arrayBuffers still held right after the analysis (before GC): ${mb(arrayBuffersAfter - arrayBuffersBefore)}`)
@@ -82,7 +85,8 @@ try {
       const soxStart = performance.now()
       execFileSync('sox', [file, '-n', 'stats'], { stdio: 'ignore' })
       soxTimes.push(performance.now() - soxStart)
-    } catch {
+    }
+    catch {
       soxMissing = true
     }
   }
@@ -91,12 +95,14 @@ try {
   console.log(`analyseSurfaceWav: best ${best(analysisTimes).toFixed(1)} ms, median ${median(analysisTimes).toFixed(1)} ms (${RUNS} runs after a warm-up)`)
   if (soxMissing) {
     console.log('sox: not installed, no comparison')
-  } else {
+  }
+  else {
     const ratio = best(analysisTimes) / best(soxTimes)
     console.log(`sox FILE -n stats: best ${best(soxTimes).toFixed(1)} ms, median ${median(soxTimes).toFixed(1)} ms (process start included)`)
     console.log(`ratio analysis / sox (best / best): ${ratio.toFixed(2)} (goal ≤ 1.5) ${ratio <= 1.5 ? 'OK' : 'OVER'}; median / median: ${(median(analysisTimes) / median(soxTimes)).toFixed(2)}`)
   }
   if (extraBytes !== null) console.log(`memory ratio: ${(extraBytes / bytes.length).toFixed(2)} × file size (goal ≤ 4) ${extraBytes <= 4 * bytes.length ? 'OK' : 'OVER'}`)
-} finally {
+}
+finally {
   rmSync(dir, { recursive: true, force: true })
 }

@@ -2,6 +2,7 @@ import { mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
+import { beforeAll } from 'vitest'
 import { setup, url } from '@nuxt/test-utils/e2e'
 import { startMailFake } from '../../fakes/mail/server'
 import { startStripeFake } from '../../fakes/stripe/server'
@@ -38,7 +39,8 @@ export async function useTestServer(env: Record<string, string> = {}) {
       ...env,
     },
   })
-  payments.setWebhookUrl(url('/api/webhooks/stripe'))
+  // setup() starts the server in its own beforeAll; this one runs after it, when the address is known.
+  beforeAll(() => payments.setWebhookUrl(url('/api/webhooks/stripe')))
   return Object.assign(mail, { payments })
 }
 

@@ -15,9 +15,10 @@ import {
 function inputError(fn: () => unknown): AudioInputError {
   try {
     fn()
-  } catch (error) {
+  }
+  catch (error) {
     if (error instanceof AudioInputError) return error
-    throw new Error(`expected an AudioInputError, got ${String(error)}`)
+    throw new Error(`expected an AudioInputError, got ${String(error)}`, { cause: error })
   }
   throw new Error('expected an AudioInputError, but the input was accepted')
 }
@@ -31,12 +32,12 @@ function withHeader(bytes: Uint8Array, edit: (view: DataView) => void): Uint8Arr
   return copy
 }
 
-const ascii = (text: string) => Array.from(text, (c) => c.charCodeAt(0))
+const ascii = (text: string) => Array.from(text, c => c.charCodeAt(0))
 const u32 = (n: number) => [n & 0xff, (n >>> 8) & 0xff, (n >>> 16) & 0xff, (n >>> 24) & 0xff]
 const u16 = (n: number) => [n & 0xff, (n >>> 8) & 0xff]
 
 /** A hand-built RIFF/WAVE with an arbitrary fmt chunk and data bytes. */
-function rawWav(fmt: { tag: number; channels: number; rate: number; bits: number; blockAlign?: number; extra?: number[] }, data: number[]): Uint8Array {
+function rawWav(fmt: { tag: number, channels: number, rate: number, bits: number, blockAlign?: number, extra?: number[] }, data: number[]): Uint8Array {
   const blockAlign = fmt.blockAlign ?? Math.max(1, (fmt.channels * fmt.bits) / 8)
   const fmtBody = [...u16(fmt.tag), ...u16(fmt.channels), ...u32(fmt.rate), ...u32(fmt.rate * blockAlign), ...u16(blockAlign), ...u16(fmt.bits), ...(fmt.extra ?? [])]
   const body = [...ascii('WAVE'), ...ascii('fmt '), ...u32(fmtBody.length), ...fmtBody, ...ascii('data'), ...u32(data.length), ...data]
@@ -47,11 +48,11 @@ function rawWav(fmt: { tag: number; channels: number; rate: number; bits: number
 describe('decoding accepted WAVs', () => {
   it('reads a file written by another writer (wavefile) with a LIST chunk before the audio', () => {
     // Interoperability: wavefile's own writer, with an INFO tag, must decode to the same samples.
-    const WaveFile =
-      (wavefileModule as unknown as { WaveFile?: typeof wavefileModule.WaveFile }).WaveFile ??
-      (wavefileModule as unknown as { default: typeof wavefileModule }).default.WaveFile
+    const WaveFile
+      = (wavefileModule as unknown as { WaveFile?: typeof wavefileModule.WaveFile }).WaveFile
+        ?? (wavefileModule as unknown as { default: typeof wavefileModule }).default.WaveFile
     const tone = makeToneSignal({ frequencyHz: 440, seconds: 0.2, peakDbfs: -6, sampleRate: 48000 })
-    const ints = Int16Array.from(tone, (x) => Math.round(x * 32767))
+    const ints = Int16Array.from(tone, x => Math.round(x * 32767))
     const writer = new WaveFile()
     writer.fromScratch(1, 48000, '16', ints)
     writer.setTag('ICMT', 'surface test of blank GW-24-0412')
@@ -102,6 +103,8 @@ describe('rejecting what we cannot analyse', () => {
     rifx.set(ascii('RIFX'), 0)
     expect(inputError(() => decodeWav(rifx)).statusCode).toBe(415)
     expect(inputError(() => decodeWav(new TextEncoder().encode('hello, this is text'))).statusCode).toBe(415)
+    expect(inputError(() => decodeWav(new Uint8Array([0, 0]))).statusCode).toBe(415)
+    expect(inputError(() => decodeWav(new Uint8Array(ascii('RI')))).statusCode).toBe(422)
   })
 
   it('a truncated WAV → 422 "cut short"', () => {
@@ -113,18 +116,18 @@ describe('rejecting what we cannot analyse', () => {
 
   it('a header whose sizes lie → 422', () => {
     // data size larger than the file
-    const tooBig = withHeader(small(), (view) => view.setUint32(40, view.getUint32(40, true) + 1000, true))
+    const tooBig = withHeader(small(), view => view.setUint32(40, view.getUint32(40, true) + 1000, true))
     expect(inputError(() => decodeWav(tooBig)).statusCode).toBe(422)
     // RIFF size smaller than its own audio
-    const riffTooSmall = withHeader(small(), (view) => view.setUint32(4, 100, true))
+    const riffTooSmall = withHeader(small(), view => view.setUint32(4, 100, true))
     const error = inputError(() => decodeWav(riffTooSmall))
     expect(error.statusCode).toBe(422)
     expect(error.message).toMatch(/doesn't add up/)
     // RIFF size larger than the file
-    const riffTooBig = withHeader(small(), (view) => view.setUint32(4, view.getUint32(4, true) + 5000, true))
+    const riffTooBig = withHeader(small(), view => view.setUint32(4, view.getUint32(4, true) + 5000, true))
     expect(inputError(() => decodeWav(riffTooBig)).statusCode).toBe(422)
     // block align that does not match channels × bytes per sample
-    const badAlign = withHeader(small(), (view) => view.setUint16(32, 3, true))
+    const badAlign = withHeader(small(), view => view.setUint16(32, 3, true))
     expect(inputError(() => decodeWav(badAlign)).statusCode).toBe(422)
   })
 
@@ -199,7 +202,8 @@ describe('garbage never hangs or crashes the decoder', () => {
   const allowed = (fn: () => unknown) => {
     try {
       fn()
-    } catch (error) {
+    }
+    catch (error) {
       if (!(error instanceof AudioInputError)) throw error
       expect([400, 413, 415, 422]).toContain(error.statusCode)
       expect(error.message.length).toBeGreaterThan(10)

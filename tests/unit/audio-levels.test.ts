@@ -9,7 +9,8 @@ function soxAvailable(): boolean {
   try {
     execFileSync('sox', ['--version'], { stdio: 'ignore' })
     return true
-  } catch {
+  }
+  catch {
     return false
   }
 }
@@ -26,7 +27,7 @@ function soxRmsLevDb(bytes: Uint8Array, name: string): number {
   // sox prints its stats on stderr.
   const run = spawnSync('sox', [file, '-n', 'stats'], { encoding: 'utf8' })
   if (run.status !== 0) throw new Error(`sox failed on ${name}: ${run.stderr}`)
-  const line = run.stderr.split('\n').find((l) => l.startsWith('RMS lev dB'))
+  const line = run.stderr.split('\n').find(l => l.startsWith('RMS lev dB'))
   if (!line) throw new Error(`no "RMS lev dB" line from sox for ${name}`)
   const value = Number(line.replace('RMS lev dB', '').trim().split(/\s+/)[0])
   if (!Number.isFinite(value)) throw new Error(`could not read sox's RMS level from "${line}"`)

@@ -80,6 +80,7 @@ export function analyseSurfaceSource(
   if (!(rpm >= 30 && rpm <= 300)) throw new RangeError(`rpm must be between 30 and 300, got ${rpm}`)
   const thresholds = surfaceThresholdsSchema.parse(options.thresholds ?? {})
   const { sampleRate } = source
+  if (!(source.frames > 0)) throw new RangeError('there are no samples to analyse')
   const durationS = source.frames / sampleRate
 
   const pass = runSurfacePass(source)

@@ -328,7 +328,7 @@ export function decodeWav(input: Uint8Array): DecodedWav {
     if (container === 'RIFX' || container === 'RF64') {
       throw new AudioInputError(415, 'container', `This is a ${container} file (a WAV variant we don't read). ${EXPORT_HINT}`)
     }
-    if (bytes.length < 4 && 'RIFF'.startsWith(container.replace(/\0+$/, ''))) {
+    if (bytes.length < 4 && 'RIFF'.startsWith(container.slice(0, bytes.length))) {
       throw new AudioInputError(422, 'truncated', 'This WAV file is cut short: only its first bytes arrived. Upload the whole file again.')
     }
     const looksLike = describeForeignFile(bytes)

@@ -51,19 +51,17 @@ function median(values: Float64Array | number[]): number {
 
 /** Median of five values with a fixed handful of comparisons (no allocation). */
 function medianOf5(v0: number, v1: number, v2: number, v3: number, v4: number): number {
-  // Order the pairs (a ≤ b) and (c ≤ d), with a ≤ c; then a is the smallest of the four and
-  // cannot be the median of five, which is therefore the 2nd smallest of b, c, d, e.
-  let a = Math.min(v0, v1)
+  // Order the pairs (a ≤ b) and (c ≤ d) and swap them so that a ≤ c; then a is the smallest of
+  // the four and cannot be the median of five, which is therefore the 2nd smallest of b, c, d, e.
+  const a = Math.min(v0, v1)
   let b = Math.max(v0, v1)
   let c = Math.min(v2, v3)
   let d = Math.max(v2, v3)
   if (c < a) {
-    const lowest = c
-    const itsPartner = d
+    const otherHigh = d
     c = a
     d = b
-    a = lowest
-    b = itsPartner
+    b = otherHigh
   }
   const low = Math.min(b, v4)
   const high = Math.max(b, v4)
