@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm'
-import { boolean, check, index, integer, jsonb, pgEnum, pgSequence, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core'
+import { boolean, check, date, doublePrecision, index, integer, jsonb, pgEnum, pgSequence, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core'
 
 export const userRole = pgEnum('user_role', ['collector', 'maker', 'shipper'])
 
@@ -215,4 +215,144 @@ export const refunds = pgTable('refunds', {
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
 }, table => [
   check('refunds_amount_positive', sql`${table.amountMinor} > 0`),
+])
+
+// ——— Workshop ———
+
+export const waxBatches = pgTable('wax_batches', {
+  id: serial('id').primaryKey(),
+  code: text('code').notNull().unique(),
+  formula: text('formula').notNull(),
+  pourDate: date('pour_date', { mode: 'string' }).notNull(),
+  // Feeds the heat-and-fit calculator; per kelvin, volumetric (linear is about a third).
+  volumetricExpansionPerK: doublePrecision('volumetric_expansion_per_k').notNull(),
+  softeningPointC: doublePrecision('softening_point_c'),
+  notes: text('notes').notNull().default(''),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+})
+
+/** One row per year: blank codes GW-<yy>-<nnnn> are drawn from it under a row lock, without gaps or repeats. */
+export const blankCodeCounters = pgTable('blank_code_counters', {
+  year: integer('year').primaryKey(),
+  last: integer('last').notNull().default(0),
+})
+
+export const blankState = pgEnum('blank_state', ['cast', 'reamed', 'shaved', 'tested_pass', 'tested_fail', 'reserved', 'cut', 'shipped', 'scrapped'])
+
+export const blanks = pgTable('blanks', {
+  id: serial('id').primaryKey(),
+  code: text('code').notNull().unique(),
+  batchId: integer('batch_id').notNull().references(() => waxBatches.id),
+  format: cylinderFormat('format').notNull(),
+  state: blankState('state').notNull().default('cast'),
+  diameterIn: doublePrecision('diameter_in'),
+  // Surfaces shaved away so far; the current surface is number surfacesUsed + 1.
+  surfacesUsed: integer('surfaces_used').notNull().default(0),
+  location: text('location').notNull().default(''),
+  notes: text('notes').notNull().default(''),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('blanks_register').on(table.state, table.format, table.batchId),
+  index('blanks_batch').on(table.batchId),
+])
+
+export const blankLogKind = pgEnum('blank_log_kind', ['reaming', 'shaving', 'reshave', 'state', 'note'])
+
+export const blankLog = pgTable('blank_log', {
+  id: serial('id').primaryKey(),
+  blankId: integer('blank_id').notNull().references(() => blanks.id, { onDelete: 'cascade' }),
+  kind: blankLogKind('kind').notNull(),
+  data: jsonb('data').$type<Record<string, unknown>>().notNull(),
+  byUserId: integer('by_user_id').references(() => users.id, { onDelete: 'set null' }),
+  at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('blank_log_blank').on(table.blankId, table.at),
+])
+
+export const testVerdict = pgEnum('test_verdict', ['pass', 'marginal', 'fail'])
+
+export const surfaceTests = pgTable('surface_tests', {
+  id: serial('id').primaryKey(),
+  blankId: integer('blank_id').notNull().references(() => blanks.id, { onDelete: 'cascade' }),
+  surface: integer('surface').notNull(),
+  fileId: text('file_id').references(() => files.id, { onDelete: 'set null' }),
+  rpm: integer('rpm').notNull(),
+  // The audio engine's full answer (levels, once-per-turn, clicks, spectrum, envelope).
+  figures: jsonb('figures').$type<Record<string, unknown>>().notNull(),
+  aWeightedDbfs: doublePrecision('a_weighted_dbfs').notNull(),
+  rotaryDb: doublePrecision('rotary_db').notNull(),
+  clicksPerMinute: doublePrecision('clicks_per_minute').notNull(),
+  computedVerdict: testVerdict('computed_verdict').notNull(),
+  finalVerdict: text('final_verdict', { enum: ['pass', 'fail'] }).notNull(),
+  overruleReason: text('overrule_reason'),
+  listeningNotes: text('listening_notes').notNull().default(''),
+  testedBy: integer('tested_by').references(() => users.id, { onDelete: 'set null' }),
+  testedAt: timestamp('tested_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('surface_tests_blank').on(table.blankId, table.surface, table.testedAt),
+])
+
+export const recorders = pgTable('recorders', {
+  id: serial('id').primaryKey(),
+  name: text('name').notNull().unique(),
+  stylus: text('stylus').notNull().default(''),
+  horn: text('horn').notNull().default(''),
+  spacer: text('spacer').notNull().default(''),
+  conditionNotes: text('condition_notes').notNull().default(''),
+  inService: boolean('in_service').notNull().default(true),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+})
+
+export const testCuts = pgTable('test_cuts', {
+  id: serial('id').primaryKey(),
+  recorderId: integer('recorder_id').notNull().references(() => recorders.id, { onDelete: 'cascade' }),
+  blankId: integer('blank_id').references(() => blanks.id, { onDelete: 'set null' }),
+  fileId: text('file_id').references(() => files.id, { onDelete: 'set null' }),
+  figures: jsonb('figures').$type<Record<string, unknown>>().notNull(),
+  aWeightedDbfs: doublePrecision('a_weighted_dbfs').notNull(),
+  clicksPerMinute: doublePrecision('clicks_per_minute').notNull(),
+  verdict: testVerdict('verdict').notNull(),
+  notes: text('notes').notNull().default(''),
+  byUserId: integer('by_user_id').references(() => users.id, { onDelete: 'set null' }),
+  cutAt: timestamp('cut_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('test_cuts_recorder').on(table.recorderId, table.cutAt),
+])
+
+export const ticketStage = pgEnum('ticket_stage', ['queued', 'blank_assigned', 'cut', 'proof_sent', 'approved', 'to_dispatch', 'done'])
+
+export const tickets = pgTable('tickets', {
+  id: serial('id').primaryKey(),
+  orderId: integer('order_id').notNull().references(() => orders.id, { onDelete: 'cascade' }),
+  orderItemId: integer('order_item_id').notNull().references(() => orderItems.id, { onDelete: 'cascade' }),
+  // One ticket per cylinder to make: an item of quantity 3 has units 1, 2 and 3.
+  unit: integer('unit').notNull(),
+  stage: ticketStage('stage').notNull().default('queued'),
+  format: cylinderFormat('format').notNull(),
+  blankId: integer('blank_id').references(() => blanks.id),
+  recorderId: integer('recorder_id').references(() => recorders.id),
+  dueDate: date('due_date', { mode: 'string' }),
+  wishes: text('wishes').notNull().default(''),
+  cutAt: timestamp('cut_at', { withTimezone: true }),
+  cutTestId: integer('cut_test_id').references(() => testCuts.id, { onDelete: 'set null' }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  uniqueIndex('tickets_item_unit').on(table.orderItemId, table.unit),
+  // The database itself keeps two open tickets from holding one blank, however fast two makers click.
+  uniqueIndex('tickets_open_blank').on(table.blankId).where(sql`${table.blankId} is not null and ${table.stage} <> 'done'`),
+  index('tickets_board').on(table.stage, table.dueDate),
+])
+
+export const ticketEvents = pgTable('ticket_events', {
+  id: serial('id').primaryKey(),
+  ticketId: integer('ticket_id').notNull().references(() => tickets.id, { onDelete: 'cascade' }),
+  fromStage: ticketStage('from_stage'),
+  toStage: ticketStage('to_stage').notNull(),
+  note: text('note'),
+  actorUserId: integer('actor_user_id').references(() => users.id, { onDelete: 'set null' }),
+  at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('ticket_events_ticket').on(table.ticketId, table.at),
 ])
