@@ -1,40 +1,68 @@
 import { mkdirSync } from 'node:fs'
 import { PGlite } from '@electric-sql/pglite'
-import { drizzle, type PgliteDatabase } from 'drizzle-orm/pglite'
-import { migrate } from 'drizzle-orm/pglite/migrator'
+import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core'
+import { drizzle as drizzlePglite } from 'drizzle-orm/pglite'
+import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator'
+import { drizzle as drizzleNodePg } from 'drizzle-orm/node-postgres'
+import { migrate as migrateNodePg } from 'drizzle-orm/node-postgres/migrator'
+import pg from 'pg'
 import * as schema from '../db/schema'
 
 export { schema }
-export type Database = PgliteDatabase<typeof schema>
+// The code knows only Drizzle's PostgreSQL base type: the embedded database and a server behave alike.
+export type Database = PgDatabase<PgQueryResultHKT, typeof schema>
 export type Transaction = Parameters<Parameters<Database['transaction']>[0]>[0]
 
-let client: PGlite | undefined
+let closeClient: (() => Promise<void>) | undefined
 let ready: Promise<Database> | undefined
 
+// Any fixed number: every app instance that starts takes this lock before migrating.
+const migrationLockKey = 7_310_426_011
+
 /**
- * The one database of this process. PGlite is single-process: only the server opens the data
- * directory. The first call opens it and applies the migrations; every caller awaits the same promise,
- * so no request can run before the schema is in place.
+ * The one database of this process. The first call opens it and applies the migrations; every caller
+ * awaits the same promise, so no request runs before the schema is in place. With `DATABASE_URL` set
+ * it is a PostgreSQL server through a pool; otherwise the embedded PGlite in `NUXT_DB_DIR`, which only
+ * this process may open.
  */
 export function useDB(): Promise<Database> {
-  ready ??= openDatabase()
+  ready ??= process.env.DATABASE_URL ? openServer(process.env.DATABASE_URL) : openEmbedded()
   return ready
 }
 
-async function openDatabase(): Promise<Database> {
+async function openEmbedded(): Promise<Database> {
   const config = useRuntimeConfig()
   const dataDir = String(config.dbDir)
   if (!dataDir.startsWith('memory://')) mkdirSync(dataDir, { recursive: true })
-  client = new PGlite(dataDir)
-  const db = drizzle(client, { schema })
-  await migrate(db, { migrationsFolder: String(config.migrationsDir) })
-  return db
+  // PGlite starts with fsync off (-F) by default; a shop's orders need it on.
+  const startParams = [...PGlite.defaultStartParams.filter(param => param !== '-F'), '-c', 'fsync=on', '-c', 'synchronous_commit=on', '-c', 'full_page_writes=on']
+  const client = new PGlite(dataDir, { startParams })
+  const db = drizzlePglite(client, { schema })
+  await migratePglite(db, { migrationsFolder: String(config.migrationsDir) })
+  closeClient = () => client.close()
+  return db as unknown as Database
+}
+
+async function openServer(connectionString: string): Promise<Database> {
+  const config = useRuntimeConfig()
+  const pool = new pg.Pool({ connectionString, max: Number(process.env.DATABASE_POOL_SIZE ?? 10) })
+  const lockClient = await pool.connect()
+  try {
+    // Several instances may start at once: one migrates, the others wait and then find nothing to do.
+    await lockClient.query('select pg_advisory_lock($1)', [migrationLockKey])
+    await migrateNodePg(drizzleNodePg(lockClient, { schema }), { migrationsFolder: String(config.migrationsDir) })
+  }
+  finally {
+    await lockClient.query('select pg_advisory_unlock($1)', [migrationLockKey]).catch(() => undefined)
+    lockClient.release()
+  }
+  closeClient = () => pool.end()
+  return drizzleNodePg(pool, { schema }) as unknown as Database
 }
 
 export async function closeDB(): Promise<void> {
-  if (!client) return
-  const closing = client
-  client = undefined
+  const close = closeClient
+  closeClient = undefined
   ready = undefined
-  await closing.close()
+  if (close) await close()
 }

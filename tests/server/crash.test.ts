@@ -1,0 +1,152 @@
+import { spawn, type ChildProcess } from 'node:child_process'
+import { mkdtempSync, rmSync } from 'node:fs'
+import { createServer } from 'node:net'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { startMailFake } from '../../fakes/mail/server'
+import { startStripeFake } from '../../fakes/stripe/server'
+import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { rootDir } from './harness'
+
+// Kill-and-restart: the embedded database must come back whole after the server dies mid-write.
+// (Against a PostgreSQL server the durability is the server's own; this test is for PGlite.)
+const embedded = !process.env.TEST_DATABASE_URL
+const secret = 'whsec_crash_test'
+const dataDir = mkdtempSync(join(tmpdir(), 'gw-crash-'))
+const maker = demoAccounts.find(a => a.role === 'maker')!
+
+async function freePort() {
+  return await new Promise<number>((done) => {
+    const probe = createServer().listen(0, '127.0.0.1', () => {
+      const { port } = probe.address() as { port: number }
+      probe.close(() => done(port))
+    })
+  })
+}
+
+class Shop {
+  cookie = ''
+  constructor(readonly base: string) {}
+  async call(path: string, body?: unknown) {
+    const response = await fetch(this.base + path, {
+      method: body === undefined ? 'GET' : 'POST',
+      headers: { 'content-type': 'application/json', 'origin': this.base, ...(this.cookie ? { cookie: this.cookie } : {}) },
+      body: body === undefined ? undefined : JSON.stringify(body),
+    })
+    const setCookie = response.headers.getSetCookie()[0]
+    if (setCookie) this.cookie = setCookie.split(';')[0]!
+    const text = await response.text()
+    return { status: response.status, body: text ? JSON.parse(text) : null }
+  }
+}
+
+describe.skipIf(!embedded)('crash safety of the embedded database', () => {
+  let mail: Awaited<ReturnType<typeof startMailFake>>
+  let payments: Awaited<ReturnType<typeof startStripeFake>>
+  let server: ChildProcess | undefined
+  let base = ''
+  let port = 0
+
+  beforeAll(async () => {
+    mail = await startMailFake({ smtpPort: 0, httpPort: 0, dir: mkdtempSync(join(tmpdir(), 'gw-crash-mail-')), quiet: true })
+    payments = await startStripeFake({ port: 0, webhookUrl: null, webhookSecret: secret, quiet: true, retry: { attempts: 10, baseMs: 150 } })
+    port = await freePort()
+    base = `http://127.0.0.1:${port}`
+    payments.setWebhookUrl(`${base}/api/webhooks/stripe`)
+  })
+
+  async function start() {
+    server = spawn(process.execPath, [resolve(rootDir, process.env.GW_OUTPUT_DIR ?? '.output', 'server/index.mjs')], {
+      stdio: 'ignore',
+      env: {
+        ...process.env,
+        PORT: String(port),
+        HOST: '127.0.0.1',
+        NUXT_DB_DIR: dataDir,
+        NUXT_SESSION_PASSWORD: 'crash-test-session-password-0123456789abcdef',
+        NUXT_SMTP_PORT: String(mail.smtpPort),
+        NUXT_STRIPE_API_PORT: String(payments.port),
+        NUXT_STRIPE_WEBHOOK_SECRET: secret,
+        NUXT_SITE_URL: base,
+      },
+    })
+    const deadline = Date.now() + 60_000
+    while (Date.now() < deadline) {
+      const healthy = await fetch(`${base}/api/health`).then(r => r.ok, () => false)
+      if (healthy) return
+      await new Promise(done => setTimeout(done, 100))
+    }
+    throw new Error('the server did not come back')
+  }
+
+  function kill() {
+    server?.kill('SIGKILL')
+    return new Promise(done => server!.once('exit', done))
+  }
+
+  afterAll(async () => {
+    server?.kill('SIGKILL')
+    await payments.close()
+    await mail.close()
+    rmSync(dataDir, { recursive: true, force: true })
+  })
+
+  it('survives SIGKILL in the middle of checkouts and payments, 10 times in a row', { timeout: 240_000 }, async () => {
+    await start()
+    const shop = new Shop(base)
+    expect((await shop.call('/api/auth/login', { email: maker.email, password: maker.password })).status).toBe(200)
+    const initialStock = 100_000
+    const product = await shop.call('/api/workshop/products', { slug: 'crash-test-blank', title: 'Crash test blank', kind: 'blank', format: 'two_minute', material: 'hard wax', priceMinor: 1200, stock: initialStock })
+    expect(product.status).toBe(201)
+    const answered = new Set<string>()
+    const startedAt = Date.now()
+
+    for (let round = 1; round <= 10 && Date.now() - startedAt < 200_000; round++) {
+      const burst = Array.from({ length: 24 }, async (_, index) => {
+        const buyer = new Shop(base)
+        const created = await buyer.call('/api/checkout', {
+          items: [{ slug: 'crash-test-blank', qty: 1 + (index % 3) }],
+          email: `crash-${round}-${index}@collectors.test`,
+          shippingAddress: { name: 'Crash Tester', line1: '1 Test Row', city: 'Lowmere', postalCode: 'LM1', country: 'Utopia' },
+          zone: 'domestic',
+        }).catch(() => null)
+        if (created?.status !== 201) return
+        answered.add(created.body.orderNumber)
+        const session = String(created.body.url).split('/').pop()
+        await fetch(`${payments.url}/_fake/sessions/${session}/complete`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' }).catch(() => undefined)
+      })
+      await new Promise(done => setTimeout(done, 150 + (round * 37) % 300))
+      await kill()
+      await Promise.allSettled(burst)
+      await start()
+
+      // Everything the API said it created is there, whole, and the stock adds up.
+      const orders: { number: string, status: string }[] = []
+      for (let page = 1; ; page++) {
+        const list = await shop.call(`/api/workshop/orders?pageSize=200&page=${page}`)
+        if (list.status === 401) {
+          await shop.call('/api/auth/login', { email: maker.email, password: maker.password })
+          page--
+          continue
+        }
+        expect(list.status).toBe(200)
+        orders.push(...list.body.rows)
+        if (list.body.rows.length < 200) break
+      }
+      const numbers = new Set(orders.map(order => order.number))
+      for (const number of answered) expect(numbers.has(number), `order ${number} answered as created is missing after round ${round}`).toBe(true)
+      let held = 0
+      for (const order of orders) {
+        const detail = await shop.call(`/api/workshop/orders/${order.number}`)
+        expect(detail.body.items.length, `order ${order.number} has no items`).toBeGreaterThan(0)
+        expect(detail.body.totalMinor).toBe(detail.body.subtotalMinor + detail.body.shippingMinor + detail.body.taxMinor)
+        if (detail.body.status === 'paid') expect(detail.body.paymentEvents.map((e: any) => e.type), `paid order ${order.number} without its payment event`).toContain('checkout.session.completed')
+        if (detail.body.status !== 'cancelled') held += detail.body.items.reduce((sum: number, item: any) => sum + item.quantity, 0)
+      }
+      const stock = (await shop.call('/api/shop/products/crash-test-blank')).body.stock as number
+      expect(stock + held, `stock does not add up after round ${round}`).toBe(initialStock)
+    }
+    expect(answered.size).toBeGreaterThan(0)
+  })
+})
