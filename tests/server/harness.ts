@@ -2,6 +2,7 @@ import { mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
+import pg from 'pg'
 import { beforeAll } from 'vitest'
 import { setup, url } from '@nuxt/test-utils/e2e'
 import { startMailFake } from '../../fakes/mail/server'
@@ -20,6 +21,7 @@ export async function useTestServer(env: Record<string, string> = {}) {
   const mailDir = mkdtempSync(join(tmpdir(), 'gw-mail-'))
   const mail = { fake: await startMailFake({ smtpPort: 0, httpPort: 0, dir: mailDir, quiet: true }), dir: mailDir }
   const payments = await startStripeFake({ port: 0, webhookUrl: null, webhookSecret, quiet: true, retry: { attempts: 6, baseMs: 200 } })
+  const database = await freshServerDatabase()
   await setup({
     rootDir,
     build: false,
@@ -36,12 +38,37 @@ export async function useTestServer(env: Record<string, string> = {}) {
       NUXT_SEED_DEMO: 'true',
       NUXT_STRIPE_API_PORT: String(payments.port),
       NUXT_STRIPE_WEBHOOK_SECRET: webhookSecret,
+      ...(database ? { DATABASE_URL: database } : {}),
       ...env,
     },
   })
   // setup() starts the server in its own beforeAll; this one runs after it, when the address is known.
-  beforeAll(() => payments.setWebhookUrl(url('/api/webhooks/stripe')))
+  beforeAll(async () => {
+    payments.setWebhookUrl(url('/api/webhooks/stripe'))
+    // The server answers before its start-up work (migrations, demo seed) is done; health waits for it.
+    const deadline = Date.now() + 60_000
+    while (Date.now() < deadline && !(await fetch(url('/api/health')).then(r => r.ok, () => false))) {
+      await new Promise(resolve => setTimeout(resolve, 100))
+    }
+  }, 70_000)
   return Object.assign(mail, { payments })
+}
+
+/**
+ * With TEST_DATABASE_URL (a PostgreSQL server), each test file gets a database of its own, so the
+ * same tests run against the embedded database and against a server.
+ */
+async function freshServerDatabase(): Promise<string | undefined> {
+  const admin = process.env.TEST_DATABASE_URL
+  if (!admin) return undefined
+  const name = `gw_test_${Date.now()}_${Math.random().toString(36).slice(2, 8)}`
+  const client = new pg.Client({ connectionString: admin })
+  await client.connect()
+  await client.query(`create database ${name}`)
+  await client.end()
+  const url = new URL(admin)
+  url.pathname = `/${name}`
+  return url.toString()
 }
 
 export interface Answer<T = any> {
