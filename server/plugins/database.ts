@@ -24,6 +24,7 @@ export default defineNitroPlugin((nitroApp) => {
     const db = await useDB()
     if (String(config.seedDemo) !== 'false') await seedIfEmpty(db)
     await requeueInterruptedMail()
+    backupToken()
     if (!stopped) timer = setTimeout(loop, 200)
     if (!stopped) sweepTimer = setInterval(sweep, 60_000)
   })()

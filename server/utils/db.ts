@@ -14,6 +14,7 @@ export type Database = PgDatabase<PgQueryResultHKT, typeof schema>
 export type Transaction = Parameters<Parameters<Database['transaction']>[0]>[0]
 
 let closeClient: (() => Promise<void>) | undefined
+let embeddedClient: PGlite | undefined
 let ready: Promise<Database> | undefined
 
 // Any fixed number: every app instance that starts takes this lock before migrating.
@@ -39,6 +40,7 @@ async function openEmbedded(): Promise<Database> {
   const client = new PGlite(dataDir, { startParams })
   const db = drizzlePglite(client, { schema })
   await migratePglite(db, { migrationsFolder: String(config.migrationsDir) })
+  embeddedClient = client
   closeClient = () => client.close()
   return db as unknown as Database
 }
@@ -60,9 +62,22 @@ async function openServer(connectionString: string): Promise<Database> {
   return drizzleNodePg(pool, { schema }) as unknown as Database
 }
 
+/**
+ * A consistent snapshot of the embedded database as a gzipped tarball of its data directory, taken
+ * inside this process (PGlite serialises it with the queries). Null when a PostgreSQL server is used:
+ * back that up with the server's own tools (pg_dump).
+ */
+export async function dumpEmbeddedDatabase(): Promise<Uint8Array | null> {
+  await useDB()
+  if (!embeddedClient) return null
+  const dump = await embeddedClient.dumpDataDir('gzip')
+  return new Uint8Array(await dump.arrayBuffer())
+}
+
 export async function closeDB(): Promise<void> {
   const close = closeClient
   closeClient = undefined
+  embeddedClient = undefined
   ready = undefined
   if (close) await close()
 }

@@ -1,0 +1,60 @@
+// `npm run restore FILE [-- --yes]`: puts a backup back while the shop is stopped. The current database
+// and uploads are kept beside the restored ones (…before-restore-<time>), never deleted.
+import { existsSync, readFileSync, renameSync, cpSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import { createInterface } from 'node:readline/promises'
+import { PGlite } from '@electric-sql/pglite'
+import { extract } from 'tar'
+
+const args = process.argv.slice(2)
+const file = args.find(arg => !arg.startsWith('--'))
+const yes = args.includes('--yes')
+if (!file || !existsSync(file)) {
+  console.error('Usage: npm run restore backups/<timestamp>.tar.gz [-- --yes]')
+  process.exit(1)
+}
+const dbDir = resolve(process.env.NUXT_DB_DIR ?? '.data/db')
+const uploadsDir = resolve(process.env.NUXT_UPLOADS_DIR ?? '.data/uploads')
+const port = Number(process.env.PORT ?? 3000)
+
+const running = await fetch(`http://127.0.0.1:${port}/api/health`).then(r => r.ok, () => false)
+if (running) {
+  console.error(`The shop is running on port ${port}. Stop it first (Ctrl-C in its terminal): only one process may open the database.`)
+  process.exit(1)
+}
+
+if (!yes) {
+  const prompt = createInterface({ input: process.stdin, output: process.stdout })
+  const answer = await prompt.question(`Replace the database in ${dbDir} and the uploads in ${uploadsDir} with ${file}?\nThe current ones are kept beside them. Type "restore" to go on: `)
+  prompt.close()
+  if (answer.trim() !== 'restore') {
+    console.log('Nothing changed.')
+    process.exit(0)
+  }
+}
+
+const work = mkdtempSync(join(tmpdir(), 'gw-restore-'))
+try {
+  await extract({ file, cwd: work })
+  if (!existsSync(join(work, 'database.tar.gz'))) throw new Error('this file is not a Groovewright backup (no database.tar.gz inside)')
+  const stamp = new Date().toISOString().replace(/[:.]/g, '-')
+  for (const dir of [dbDir, uploadsDir]) {
+    if (existsSync(dir)) renameSync(dir, `${dir}.before-restore-${stamp}`)
+  }
+  mkdirSync(dbDir, { recursive: true })
+  const startParams = [...PGlite.defaultStartParams.filter(param => param !== '-F'), '-c', 'fsync=on']
+  const db = new PGlite(dbDir, { loadDataDir: new Blob([readFileSync(join(work, 'database.tar.gz'))]), startParams })
+  const { rows } = await db.query('select count(*)::int as n from orders')
+  await db.close()
+  if (existsSync(join(work, 'uploads'))) cpSync(join(work, 'uploads'), uploadsDir, { recursive: true })
+  else mkdirSync(uploadsDir, { recursive: true })
+  console.log(`Restored ${file}: ${rows[0].n} orders. Start the shop with npm start.`)
+}
+catch (error) {
+  console.error(`Restore failed: ${error instanceof Error ? error.message : error}`)
+  process.exitCode = 1
+}
+finally {
+  rmSync(work, { recursive: true, force: true })
+}

@@ -1,0 +1,49 @@
+import { randomBytes, timingSafeEqual } from 'node:crypto'
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
+import { cp, mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import { create as createTar } from 'tar'
+
+/**
+ * One backup archive: `database.tar.gz` (the embedded database's data directory, dumped by the server
+ * process itself), the `uploads/` folder, and `manifest.json`.
+ */
+export async function createBackupArchive(): Promise<{ name: string, bytes: Buffer }> {
+  const database = await dumpEmbeddedDatabase()
+  if (!database) {
+    throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This shop runs on a PostgreSQL server: back it up with pg_dump; upload files live in the configured storage.' })
+  }
+  const stamp = new Date().toISOString().replace(/[:.]/g, '-')
+  const work = await mkdtemp(join(tmpdir(), 'gw-backup-'))
+  try {
+    await writeFile(join(work, 'database.tar.gz'), database)
+    await writeFile(join(work, 'manifest.json'), JSON.stringify({ createdAt: new Date().toISOString(), format: 1, contents: ['database.tar.gz', 'uploads/'] }, null, 2))
+    const uploads = resolve(String(useRuntimeConfig().uploadsDir))
+    if (existsSync(uploads)) await cp(uploads, join(work, 'uploads'), { recursive: true })
+    else await mkdir(join(work, 'uploads'))
+    const archive = join(work, `${stamp}.tar.gz`)
+    await createTar({ gzip: true, file: archive, cwd: work, portable: true }, ['manifest.json', 'database.tar.gz', 'uploads'])
+    return { name: `${stamp}.tar.gz`, bytes: readFileSync(archive) }
+  }
+  finally {
+    await rm(work, { recursive: true, force: true })
+  }
+}
+
+/** The key `npm run backup` shows the server: kept in the data folder, readable only by whoever runs the shop. */
+export function backupToken(): string {
+  const file = resolve('.data/backup-token')
+  if (!existsSync(file)) {
+    mkdirSync(resolve('.data'), { recursive: true })
+    writeFileSync(file, randomBytes(24).toString('hex'), { mode: 0o600 })
+  }
+  return readFileSync(file, 'utf8').trim()
+}
+
+export function backupTokenValid(given: string | undefined): boolean {
+  if (!given) return false
+  const expected = Buffer.from(backupToken())
+  const candidate = Buffer.from(given)
+  return expected.length === candidate.length && timingSafeEqual(expected, candidate)
+}
