@@ -58,6 +58,8 @@ export default defineNuxtConfig({
       // Re-mounted at run time at `uploadsDir` (NUXT_UPLOADS_DIR) by server/utils/uploads.ts.
       uploads: { driver: 'fs', base: '.data/uploads' },
     },
+    // Node 20 runs ES2022 (BigInt literals in the money and length engines among it).
+    esbuild: { options: { target: 'es2022' } },
     externals: {
       // PGlite loads its WASM and data files next to its own module at run time.
       external: ['@electric-sql/pglite'],
