@@ -7,6 +7,7 @@ import { cylinderFormats, standardCylinderRpm } from '#shared/utils/cylinder'
 import { defaultEngineSettings } from '#shared/utils/engineSettings'
 import { files, productChanges, products } from '../db/schema'
 import { encodeWav, makeSeededRandom, makeSurfaceSignal, makeToneSignal } from './audio/synth'
+import type { Storage } from 'unstorage'
 import type { Database } from './db'
 
 type NewProduct = typeof products.$inferInsert
@@ -363,12 +364,26 @@ export function demoSampleWav(product: DemoProduct): Uint8Array {
   return encodeWav(music, { sampleRate: SAMPLE_RATE, bits: 16, channels: 1 })
 }
 
-export const demoPhotoId = (slug: string, index: number) => `demo-${slug}-photo-${index + 1}`
-export const demoSampleId = (slug: string) => `demo-${slug}-sample`
+// The drawing version is in the id: when the drawings or the tune change, bump it and the old files are left behind.
+const DEMO_FILES_VERSION = 1
+export const demoPhotoId = (slug: string, index: number) => `demo${DEMO_FILES_VERSION}-${slug}-photo-${index + 1}`
+export const demoSampleId = (slug: string) => `demo${DEMO_FILES_VERSION}-${slug}-sample`
 
 /**
- * Adds the demo products that are not there yet (by slug), with their photos and samples written
- * through the uploads storage under fixed ids, so seeding again overwrites rather than piles up.
+ * The bytes of one demo file: what the uploads storage already holds under its fixed id (a restart
+ * with a fresh database, e.g. every test server), or else made now and written there.
+ */
+async function demoFile(storage: Storage, id: string, make: () => Promise<Uint8Array> | Uint8Array): Promise<number> {
+  const kept = await storage.getItemRaw<Uint8Array>(id).catch(() => null)
+  if (kept && kept.byteLength > 0) return kept.byteLength
+  const bytes = await make()
+  await storage.setItemRaw(id, bytes)
+  return bytes.byteLength
+}
+
+/**
+ * Adds the demo products that are not there yet (by slug), with their photos and samples in the
+ * uploads storage under fixed ids, so seeding again reuses rather than piles up.
  */
 export async function seedDemoCatalogue(db: Database) {
   const started = performance.now()
@@ -376,26 +391,26 @@ export async function seedDemoCatalogue(db: Database) {
   const missing = demoCatalogue().filter(product => !present.has(product.slug))
   if (missing.length === 0) return
 
-  // sharp draws on its own threads while the samples are computed here.
-  const drawing = missing.map(product => Promise.all(demoPhotoSvgs(product).map(renderPhoto)))
-  const samples = missing.map(product => product.kind === 'recorded' ? demoSampleWav(product) : null)
-  const photoSets = await Promise.all(drawing)
-  const prepared = missing.map((product, index) => ({ product, photos: photoSets[index]!, sample: samples[index]! }))
   const storage = await uploadStorage()
-  await Promise.all(prepared.flatMap(({ product, photos, sample }) => [
-    ...photos.map((photo, index) => storage.setItemRaw(demoPhotoId(product.slug, index), photo)),
-    ...(sample ? [storage.setItemRaw(demoSampleId(product.slug), sample)] : []),
-  ]))
+  // sharp draws the photos on its own threads while the samples are computed on this one.
+  const prepared = await Promise.all(missing.map(async (product) => {
+    const photos = Promise.all(demoPhotoSvgs(product)
+      .map((svg, index) => demoFile(storage, demoPhotoId(product.slug, index), () => renderPhoto(svg))))
+    const sample = product.kind === 'recorded' ? demoFile(storage, demoSampleId(product.slug), () => demoSampleWav(product)) : null
+    const [photoBytes, sampleBytes] = await Promise.all([photos, sample])
+    return { product, photoBytes, sampleBytes }
+  }))
 
   await db.transaction(async (tx) => {
-    for (const { product, photos, sample } of prepared) {
+    for (const { product, photoBytes, sampleBytes } of prepared) {
       const { palette: _palette, tune: _tune, ...row } = product
-      const photoFileIds = photos.map((_, index) => demoPhotoId(product.slug, index))
+      const photoFileIds = photoBytes.map((_, index) => demoPhotoId(product.slug, index))
+      const sampleFileId = sampleBytes ? demoSampleId(product.slug) : null
       await tx.insert(files).values([
-        ...photos.map((photo, index) => ({ id: photoFileIds[index]!, purpose: 'photo', mime: 'image/webp', bytes: photo.byteLength, originalName: `${product.slug}-${index + 1}.webp`, isPublic: true })),
-        ...(sample ? [{ id: demoSampleId(product.slug), purpose: 'audio', mime: 'audio/wav', bytes: sample.byteLength, originalName: `${product.slug}-sample.wav`, isPublic: true }] : []),
+        ...photoBytes.map((bytes, index) => ({ id: photoFileIds[index]!, purpose: 'photo', mime: 'image/webp', bytes, originalName: `${product.slug}-${index + 1}.webp`, isPublic: true })),
+        ...(sampleFileId ? [{ id: sampleFileId, purpose: 'audio', mime: 'audio/wav', bytes: sampleBytes!, originalName: `${product.slug}-sample.wav`, isPublic: true }] : []),
       ]).onConflictDoNothing()
-      const [inserted] = await tx.insert(products).values({ ...row, photoFileIds, sampleFileId: sample ? demoSampleId(product.slug) : null })
+      const [inserted] = await tx.insert(products).values({ ...row, photoFileIds, sampleFileId })
         .onConflictDoNothing().returning({ id: products.id })
       if (!inserted) continue
       await tx.insert(productChanges).values([
@@ -404,8 +419,8 @@ export async function seedDemoCatalogue(db: Database) {
       ])
     }
   })
-  const photoCount = prepared.reduce((sum, entry) => sum + entry.photos.length, 0)
-  console.info(`[seed] demo catalogue: ${prepared.length} products, ${photoCount} photos, ${prepared.filter(entry => entry.sample).length} samples in ${((performance.now() - started) / 1000).toFixed(1)} s`)
+  const photoCount = prepared.reduce((sum, entry) => sum + entry.photoBytes.length, 0)
+  console.info(`[seed] demo catalogue: ${prepared.length} products, ${photoCount} photos, ${prepared.filter(entry => entry.sampleBytes).length} samples in ${((performance.now() - started) / 1000).toFixed(1)} s`)
 }
 
 export async function productCount(db: Database): Promise<number> {

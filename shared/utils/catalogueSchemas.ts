@@ -14,6 +14,7 @@ export const fileIdPattern = /^[A-Za-z0-9_-]{8,80}$/
 export const uploadLimits = {
   photo: { maxBytes: 8 * 1024 * 1024, label: '8 MB', types: 'JPEG, PNG or WebP' },
   audio: { maxBytes: 30 * 1024 * 1024, label: '30 MB', types: 'WAV, MP3 or Ogg' },
+  surface_test: { maxBytes: 60 * 1024 * 1024, label: '60 MB', types: 'WAV' },
 } as const
 export type UploadPurpose = keyof typeof uploadLimits
 
@@ -88,16 +89,16 @@ export function productRuleProblems(product: ProductFields): Record<string, stri
   const problems: Record<string, string> = {}
   if (product.kind === 'recorded') {
     if (!product.performer) problems.performer = 'performer is required for a recorded cylinder'
-    if (!product.runningTimeS) problems.runningTimeS = 'runningTimeS is required for a recorded cylinder'
+    if (!product.runningTimeS) problems.runningTimeS = 'running time is required for a recorded cylinder'
   }
   if (product.runningTimeS) {
     const capacity = surfaceCapacitySeconds(product.format, product.rpm)
     if (product.runningTimeS > capacity) {
-      problems.runningTimeS = `runningTimeS: ${formatRunningTime(product.runningTimeS)} is longer than a ${product.format === 'two_minute' ? '2-minute' : '4-minute'} surface holds at ${product.rpm} rpm (${formatRunningTime(capacity)})`
+      problems.runningTimeS = `running time ${formatRunningTime(product.runningTimeS)} is longer than a ${product.format === 'two_minute' ? '2-minute' : '4-minute'} surface holds at ${product.rpm} rpm (${formatRunningTime(capacity)})`
     }
   }
-  if (product.madeToOrder && product.kind !== 'recorded') problems.madeToOrder = 'madeToOrder: only recorded cylinders are cut to order'
-  if (product.photoFileIds.length > 0 && !product.photoAlt) problems.photoAlt = 'photoAlt: describe the photos for people who cannot see them'
+  if (product.madeToOrder && product.kind !== 'recorded') problems.madeToOrder = 'only recorded cylinders are cut to order'
+  if (product.photoFileIds.length > 0 && !product.photoAlt) problems.photoAlt = 'describe the photos for people who cannot see them'
   return problems
 }
 

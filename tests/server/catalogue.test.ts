@@ -1,10 +1,10 @@
-import { mkdtempSync, readdirSync } from 'node:fs'
+import { mkdtempSync, readdirSync, rmSync } from 'node:fs'
 import { request as httpRequest } from 'node:http'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { url } from '@nuxt/test-utils/e2e'
 import sharp from 'sharp'
-import { beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { encodeWav, makeToneSignal } from '../../server/utils/audio/synth'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { Client, signedIn, useTestServer } from './harness'
@@ -24,6 +24,8 @@ beforeAll(async () => {
   collector = await signedIn(account('collector').email, account('collector').password)
   shipper = await signedIn(account('shipper').email, account('shipper').password)
 })
+
+afterAll(() => rmSync(uploadsDir, { recursive: true, force: true }))
 
 interface UploadFile {
   name: string
