@@ -2,7 +2,7 @@
 // and uploads are kept beside the restored ones (…before-restore-<time>), never deleted.
 import { existsSync, readFileSync, renameSync, cpSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { dirname, join, resolve } from 'node:path'
 import { createInterface } from 'node:readline/promises'
 import { PGlite } from '@electric-sql/pglite'
 import { extract } from 'tar'
@@ -35,23 +35,35 @@ if (!yes) {
 }
 
 const work = mkdtempSync(join(tmpdir(), 'gw-restore-'))
+const stamp = new Date().toISOString().replace(/[:.]/g, '-')
+const moved = []
 try {
   await extract({ file, cwd: work })
   if (!existsSync(join(work, 'database.tar.gz'))) throw new Error('this file is not a Groovewright backup (no database.tar.gz inside)')
-  const stamp = new Date().toISOString().replace(/[:.]/g, '-')
-  for (const dir of [dbDir, uploadsDir]) {
-    if (existsSync(dir)) renameSync(dir, `${dir}.before-restore-${stamp}`)
-  }
-  mkdirSync(dbDir, { recursive: true })
+  // Load into a fresh folder first; the live folders are swapped only once that has worked.
+  const loadedDb = join(work, 'db')
   const startParams = [...PGlite.defaultStartParams.filter(param => param !== '-F'), '-c', 'fsync=on']
-  const db = new PGlite(dbDir, { loadDataDir: new Blob([readFileSync(join(work, 'database.tar.gz'))]), startParams })
+  const db = new PGlite(loadedDb, { loadDataDir: new Blob([readFileSync(join(work, 'database.tar.gz'))]), startParams })
   const { rows } = await db.query('select count(*)::int as n from orders')
   await db.close()
+  for (const dir of [dbDir, uploadsDir]) {
+    if (existsSync(dir)) {
+      renameSync(dir, `${dir}.before-restore-${stamp}`)
+      moved.push(dir)
+    }
+  }
+  mkdirSync(dirname(dbDir), { recursive: true })
+  cpSync(loadedDb, dbDir, { recursive: true })
   if (existsSync(join(work, 'uploads'))) cpSync(join(work, 'uploads'), uploadsDir, { recursive: true })
   else mkdirSync(uploadsDir, { recursive: true })
   console.log(`Restored ${file}: ${rows[0].n} orders. Start the shop with npm start.`)
 }
 catch (error) {
+  // Put back whatever was moved aside, so a failed restore leaves the shop as it was.
+  for (const dir of moved) {
+    rmSync(dir, { recursive: true, force: true })
+    renameSync(`${dir}.before-restore-${stamp}`, dir)
+  }
   console.error(`Restore failed: ${error instanceof Error ? error.message : error}`)
   process.exitCode = 1
 }

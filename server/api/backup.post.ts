@@ -1,4 +1,4 @@
-import { mkdirSync, writeFileSync } from 'node:fs'
+import { mkdirSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 
 // For `npm run backup` on the shop's own machine: it shows the key kept in .data/backup-token, and the
@@ -7,10 +7,7 @@ export default defineEventHandler(async (event) => {
   if (!backupTokenValid(getRequestHeader(event, 'x-backup-token'))) {
     throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'x-backup-token: missing or wrong (it is in .data/backup-token).' })
   }
-  const backup = await createBackupArchive()
   const dir = resolve(process.env.BACKUP_DIR ?? 'backups')
   mkdirSync(dir, { recursive: true })
-  const file = join(dir, backup.name)
-  writeFileSync(file, backup.bytes)
-  return { file, bytes: backup.bytes.length }
+  return await writeBackupArchive(join(dir, backupName()))
 })

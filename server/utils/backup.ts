@@ -1,34 +1,39 @@
 import { randomBytes, timingSafeEqual } from 'node:crypto'
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
-import { cp, mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises'
+import { mkdir, mkdtemp, rename, rm, stat, symlink, writeFile } from 'node:fs/promises'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { create as createTar } from 'tar'
 
 /**
- * One backup archive: `database.tar.gz` (the embedded database's data directory, dumped by the server
- * process itself), the `uploads/` folder, and `manifest.json`.
+ * Writes one backup archive to `target`: `database.tar.gz` (the embedded database's data directory,
+ * dumped by the server process itself), the `uploads/` folder, and `manifest.json`. The archive is
+ * streamed to disk file by file, never held whole in memory, and appears under its name only when complete.
  */
-export async function createBackupArchive(): Promise<{ name: string, bytes: Buffer }> {
+export async function writeBackupArchive(target: string): Promise<{ file: string, bytes: number }> {
   const database = await dumpEmbeddedDatabase()
   if (!database) {
     throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This shop runs on a PostgreSQL server: back it up with pg_dump; upload files live in the configured storage.' })
   }
-  const stamp = new Date().toISOString().replace(/[:.]/g, '-')
   const work = await mkdtemp(join(tmpdir(), 'gw-backup-'))
   try {
     await writeFile(join(work, 'database.tar.gz'), database)
     await writeFile(join(work, 'manifest.json'), JSON.stringify({ createdAt: new Date().toISOString(), format: 1, contents: ['database.tar.gz', 'uploads/'] }, null, 2))
     const uploads = resolve(String(useRuntimeConfig().uploadsDir))
-    if (existsSync(uploads)) await cp(uploads, join(work, 'uploads'), { recursive: true })
+    if (existsSync(uploads)) await symlink(uploads, join(work, 'uploads'), 'dir')
     else await mkdir(join(work, 'uploads'))
-    const archive = join(work, `${stamp}.tar.gz`)
-    await createTar({ gzip: true, file: archive, cwd: work, portable: true }, ['manifest.json', 'database.tar.gz', 'uploads'])
-    return { name: `${stamp}.tar.gz`, bytes: readFileSync(archive) }
+    const partial = `${target}.partial`
+    await createTar({ gzip: true, file: partial, cwd: work, portable: true, follow: true }, ['manifest.json', 'database.tar.gz', 'uploads'])
+    await rename(partial, target)
+    return { file: target, bytes: (await stat(target)).size }
   }
   finally {
     await rm(work, { recursive: true, force: true })
   }
+}
+
+export function backupName(): string {
+  return `${new Date().toISOString().replace(/[:.]/g, '-')}.tar.gz`
 }
 
 /** The key `npm run backup` shows the server: kept in the data folder, readable only by whoever runs the shop. */

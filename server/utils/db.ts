@@ -27,7 +27,13 @@ const migrationLockKey = 7_310_426_011
  * this process may open.
  */
 export function useDB(): Promise<Database> {
-  ready ??= process.env.DATABASE_URL ? openServer(process.env.DATABASE_URL) : openEmbedded()
+  if (!ready) {
+    ready = process.env.DATABASE_URL ? openServer(process.env.DATABASE_URL) : openEmbedded()
+    // A failed start (say, the server was not up yet) is not remembered: the next caller tries again.
+    ready.catch(() => {
+      ready = undefined
+    })
+  }
   return ready
 }
 

@@ -9,6 +9,7 @@ type OrderStatusValue = Order['status']
 /** A guest's key to their order page, sent in their confirmation mail: an HMAC of the order number. */
 export function orderAccessToken(orderNumber: string): string {
   const secret = String(useRuntimeConfig().session?.password ?? process.env.NUXT_SESSION_PASSWORD ?? '')
+  if (secret.length < 32) throw new Error('NUXT_SESSION_PASSWORD must be at least 32 characters: it also signs guests\' order links')
   return createHmac('sha256', `order-link:${secret}`).update(orderNumber).digest('base64url').slice(0, 32)
 }
 
@@ -56,17 +57,30 @@ export async function releaseReservation(tx: Database | Transaction, orderId: nu
   return cancelled
 }
 
-/** Takes the stock of a cancelled order again (a payment that arrived after its hold ran out). */
+class NotAllInStock extends Error {}
+
+/**
+ * Takes the stock of a cancelled order again (a payment that arrived after its hold ran out): all of
+ * it or none, inside a savepoint, so a half-taken order leaves no stock missing.
+ */
 export async function reReserveStock(tx: Database | Transaction, orderId: number): Promise<boolean> {
-  const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
-  for (const item of items) {
-    if (!item.productId) continue
-    const [taken] = await tx.update(products).set({ stock: sql`${products.stock} - ${item.quantity}` })
-      .where(and(eq(products.id, item.productId), sql`${products.stock} >= ${item.quantity}`)).returning({ id: products.id })
-    if (!taken) return false
+  const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId)).orderBy(orderItems.productId)
+  try {
+    await tx.transaction(async (savepoint) => {
+      for (const item of items) {
+        if (!item.productId) continue
+        const [taken] = await savepoint.update(products).set({ stock: sql`${products.stock} - ${item.quantity}` })
+          .where(and(eq(products.id, item.productId), sql`${products.stock} >= ${item.quantity}`)).returning({ id: products.id })
+        if (!taken) throw new NotAllInStock()
+      }
+      await savepoint.update(orders).set({ stockReleasedAt: null }).where(eq(orders.id, orderId))
+    })
+    return true
   }
-  await tx.update(orders).set({ stockReleasedAt: null }).where(eq(orders.id, orderId))
-  return true
+  catch (error) {
+    if (error instanceof NotAllInStock) return false
+    throw error
+  }
 }
 
 export async function orderWithItems(db: Database | Transaction, orderId: number) {

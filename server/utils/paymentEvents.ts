@@ -1,6 +1,6 @@
 import type Stripe from 'stripe'
 import { and, eq, sql } from 'drizzle-orm'
-import { orderEvents, orderItems, orders, products, refunds } from '../db/schema'
+import { orderEvents, orders, refunds } from '../db/schema'
 import type { Transaction } from './db'
 
 interface Handled {
@@ -24,34 +24,49 @@ async function findOrder(tx: Transaction, by: { number?: string | null, paymentI
 
 const intentId = (value: string | { id: string } | null | undefined) => (typeof value === 'string' ? value : value?.id ?? null)
 
+/**
+ * A checkout session the payment service reports complete and paid: the order becomes paid (once),
+ * its confirmation is queued and its production tickets made. Used by the webhook and by the sweep.
+ */
+export async function settlePaidSession(tx: Transaction, session: Stripe.Checkout.Session): Promise<Handled> {
+  const order = await findOrder(tx, { number: session.metadata?.order_number ?? session.client_reference_id })
+  if (!order) return { outcome: 'no such order' }
+  const paymentIntent = intentId(session.payment_intent)
+  const paid = await moveOrder(tx, order.id, ['awaiting_payment'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent })
+  if (paid) {
+    await queueOrderConfirmation(tx, order.id)
+    await createTicketsForOrder(tx, order.id)
+    return { outcome: 'paid', orderId: order.id }
+  }
+  if (order.status !== 'cancelled' || order.paidAt !== null) return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
+  // The money came after the hold ran out: take the stock again if all of it is still there, else refund.
+  if (await reReserveStock(tx, order.id)) {
+    await moveOrder(tx, order.id, ['cancelled'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent }, 'Payment arrived after the hold ran out; the stock was still there.')
+    await queueOrderConfirmation(tx, order.id)
+    await createTicketsForOrder(tx, order.id)
+    return { outcome: 'paid late', orderId: order.id }
+  }
+  await tx.update(orders).set({ paymentIntentId: paymentIntent, paidAt: new Date() }).where(eq(orders.id, order.id))
+  // The refund is written down first, so the maker sees it pending even if the call below fails.
+  const [refund] = await tx.insert(refunds).values({ orderId: order.id, amountMinor: order.totalMinor, reason: 'sold out before your payment arrived' }).returning()
+  await tx.insert(orderEvents).values({ orderId: order.id, fromStatus: order.status, toStatus: order.status, note: 'Paid after the stock was sold: refunding in full.' })
+  return {
+    outcome: 'paid after sell-out: refunding',
+    orderId: order.id,
+    followUp: async () => {
+      const made = await useStripe().refunds.create({ payment_intent: paymentIntent!, reason: 'requested_by_customer', metadata: { order_number: order.number, refund_id: String(refund!.id) } }, { idempotencyKey: `refund-${refund!.id}` })
+      const db = await useDB()
+      await db.update(refunds).set({ providerRefundId: made.id }).where(eq(refunds.id, refund!.id))
+    },
+  }
+}
+
 export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.Event): Promise<Handled> {
   switch (paymentEvent.type) {
     case 'checkout.session.completed': {
       const session = paymentEvent.data.object
-      const order = await findOrder(tx, { number: session.metadata?.order_number ?? session.client_reference_id })
-      if (!order) return { outcome: 'no such order' }
-      if (session.payment_status !== 'paid') return { outcome: 'not paid yet', orderId: order.id }
-      const paymentIntent = intentId(session.payment_intent)
-      const paid = await moveOrder(tx, order.id, ['awaiting_payment'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent })
-      if (paid) {
-        await queueOrderConfirmation(tx, order.id)
-        return { outcome: 'paid', orderId: order.id }
-      }
-      if (order.status === 'cancelled' && order.paidAt === null) {
-        // The money came after the hold ran out: take the stock again if it is still there, else refund.
-        if (await reReserveStock(tx, order.id)) {
-          await moveOrder(tx, order.id, ['cancelled'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent }, 'Payment arrived after the hold ran out; the stock was still there.')
-          await queueOrderConfirmation(tx, order.id)
-          return { outcome: 'paid late', orderId: order.id }
-        }
-        await tx.update(orders).set({ paymentIntentId: paymentIntent, paidAt: new Date() }).where(eq(orders.id, order.id))
-        return {
-          outcome: 'paid after sell-out: refunding',
-          orderId: order.id,
-          followUp: () => useStripe().refunds.create({ payment_intent: paymentIntent!, reason: 'requested_by_customer', metadata: { order_number: order.number, automatic: 'sold out before payment arrived' } }, { idempotencyKey: `late-refund-${order.number}` }),
-        }
-      }
-      return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
+      if (session.payment_status !== 'paid') return { outcome: 'not paid yet' }
+      return await settlePaidSession(tx, session)
     }
     case 'checkout.session.expired': {
       const session = paymentEvent.data.object
@@ -87,26 +102,24 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       const charge = paymentEvent.data.object
       const order = await findOrder(tx, { number: charge.metadata?.order_number, paymentIntent: intentId(charge.payment_intent) })
       if (!order) return { outcome: 'no such order' }
-      return { outcome: await applyRefunds(tx, order, charge), orderId: order.id }
+      // Newer API versions leave the refund list out of the charge: ask for it.
+      const listed = charge.refunds?.data ?? (await useStripe().refunds.list({ payment_intent: intentId(charge.payment_intent) ?? undefined, charge: intentId(charge.payment_intent) ? undefined : charge.id, limit: 100 })).data
+      return { outcome: await applyRefunds(tx, order, charge.amount_refunded, listed), orderId: order.id }
     }
     default:
       return { outcome: 'ignored type' }
   }
 }
 
-async function applyRefunds(tx: Transaction, order: typeof orders.$inferSelect, charge: Stripe.Charge) {
-  const refundedMinor = Math.min(order.totalMinor, Math.max(order.refundedMinor, charge.amount_refunded))
-  for (const providerRefund of charge.refunds?.data ?? []) {
+async function applyRefunds(tx: Transaction, order: typeof orders.$inferSelect, amountRefunded: number, providerRefunds: Stripe.Refund[]) {
+  for (const providerRefund of providerRefunds) {
+    if (providerRefund.status !== 'succeeded') continue
     const localId = Number(providerRefund.metadata?.refund_id)
     const match = Number.isInteger(localId) && localId > 0 ? eq(refunds.id, localId) : eq(refunds.providerRefundId, providerRefund.id)
     const [settled] = await tx.update(refunds).set({ status: 'succeeded', providerRefundId: providerRefund.id })
       .where(and(match, eq(refunds.orderId, order.id), sql`${refunds.status} <> 'succeeded'`)).returning()
-    if (settled?.restock) {
-      const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, order.id))
-      for (const item of items) {
-        if (item.productId && !item.madeToOrder) await tx.update(products).set({ stock: sql`${products.stock} + ${item.quantity}` }).where(eq(products.id, item.productId))
-      }
-    }
+    // The order's stock goes back on sale at most once, however many refunds ask for it.
+    if (settled?.restock) await returnStock(tx, order.id)
     if (settled) {
       await queueMail(tx, {
         to: order.email,
@@ -123,8 +136,11 @@ async function applyRefunds(tx: Transaction, order: typeof orders.$inferSelect, 
       })
     }
   }
-  await tx.update(orders).set({ refundedMinor, updatedAt: new Date() }).where(eq(orders.id, order.id))
-  if (refundedMinor >= order.totalMinor) {
+  // Never lowered by an older event arriving late; never above the total.
+  const [updated] = await tx.update(orders)
+    .set({ refundedMinor: sql`least(${orders.totalMinor}, greatest(${orders.refundedMinor}, ${amountRefunded}))`, updatedAt: new Date() })
+    .where(eq(orders.id, order.id)).returning({ refundedMinor: orders.refundedMinor, totalMinor: orders.totalMinor })
+  if (updated && updated.refundedMinor >= updated.totalMinor) {
     await moveOrder(tx, order.id, ['paid', 'in_production', 'proof_pending', 'ready_to_pack', 'packed', 'shipped', 'delivered', 'cancelled'], 'refunded', {}, 'Refunded in full.')
     return 'refunded in full'
   }

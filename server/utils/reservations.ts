@@ -15,8 +15,16 @@ export async function sweepExpiredReservations(graceMs = 120_000) {
   for (const order of due) {
     if (order.checkoutSessionId) {
       const session = await useStripe().checkout.sessions.retrieve(order.checkoutSessionId).catch(() => null)
-      if (session?.status === 'complete') continue
-      if (session?.status === 'open') {
+      if (!session) continue
+      if (session.status === 'complete') {
+        // Paid, but the event never reached us (or not yet): settle it the same way the webhook would.
+        if (session.payment_status === 'paid') {
+          const settled = await db.transaction(tx => settlePaidSession(tx, session))
+          await settled.followUp?.()
+        }
+        continue
+      }
+      if (session.status === 'open') {
         const closed = await useStripe().checkout.sessions.expire(order.checkoutSessionId).then(() => true, () => false)
         if (!closed) continue
       }

@@ -15,7 +15,8 @@ export default defineEventHandler(async (event) => {
     const quote = await quoteCart(tx, input)
     const blocking = quote.changes.filter(change => change.kind !== 'price' || !input.acceptChanges)
     if (blocking.length > 0) return { changes: quote.changes, quote }
-    for (const line of quote.lines) {
+    // Always in product order, so two carts holding the same products cannot deadlock each other.
+    for (const line of [...quote.lines].sort((a, b) => a.productId - b.productId)) {
       const [taken] = await tx.update(products).set({ stock: sql`${products.stock} - ${line.qty}` })
         .where(and(eq(products.id, line.productId), sql`${products.stock} >= ${line.qty}`)).returning({ id: products.id })
       if (!taken) throw new SoldOut(line.title)

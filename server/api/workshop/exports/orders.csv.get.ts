@@ -9,7 +9,11 @@ export default defineEventHandler(async (event) => {
   const query = queryWith(event, orderListQuerySchema)
   const { rows } = await listOrders(await useDB(), query, 50_000)
   const header = ['number', 'status', 'email', 'name', 'created_at', 'currency', 'total', 'refunded']
-  const lines = rows.map(row => [row.number, row.status, row.email, row.name, row.createdAt, row.currency, (row.totalMinor / 100).toFixed(2), (row.refundedMinor / 100).toFixed(2)].map(csvCell).join(','))
+  const amount = (minor: number, currency: string) => {
+    const digits = currencyMinorDigits(currency)
+    return (minor / 10 ** digits).toFixed(digits)
+  }
+  const lines = rows.map(row => [row.number, row.status, row.email, row.name, row.createdAt, row.currency, amount(row.totalMinor, row.currency), amount(row.refundedMinor, row.currency)].map(csvCell).join(','))
   setResponseHeader(event, 'content-type', 'text/csv; charset=utf-8')
   setResponseHeader(event, 'content-disposition', `attachment; filename="orders-${new Date().toISOString().slice(0, 10)}.csv"`)
   return [header.join(','), ...lines].join('\r\n') + '\r\n'

@@ -14,7 +14,12 @@ export default defineEventHandler(async (event) => {
   if (order.status !== 'awaiting_payment') throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `Only an unpaid order can be cancelled; this one is ${order.status}.` })
   if (order.checkoutSessionId) {
     // Close the payment page first, so the customer cannot pay for a cancelled order.
-    await useStripe().checkout.sessions.expire(order.checkoutSessionId).catch(() => undefined)
+    const closed = await useStripe().checkout.sessions.expire(order.checkoutSessionId).then(() => true, () => false)
+    if (!closed) {
+      const session = await useStripe().checkout.sessions.retrieve(order.checkoutSessionId).catch(() => null)
+      if (session?.status === 'complete') throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'The customer has just paid for this order; it will show as paid in a moment. Refund it instead if needed.' })
+      if (session?.status !== 'expired') throw createError({ statusCode: 502, statusMessage: 'Payment service error', message: 'The payment page could not be closed, so the order was not cancelled; try again in a minute.' })
+    }
   }
   const cancelled = await db.transaction(async (tx) => {
     const moved = await moveOrder(tx, order.id, ['awaiting_payment'], 'cancelled', {}, 'Cancelled by the workshop.', maker.id)

@@ -1,4 +1,5 @@
 import { eq, sum } from 'drizzle-orm'
+import Stripe from 'stripe'
 import { z } from 'zod'
 import { orders, refunds } from '../../../../db/schema'
 
@@ -22,7 +23,7 @@ export default defineEventHandler(async (event) => {
     if (!refundable.has(order.status) || !order.paymentIntentId) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `An order that is ${order.status} cannot be refunded.` })
     // Refunds asked for but not yet confirmed count too, so two clicks cannot refund twice.
     const [asked] = await tx.select({ total: sum(refunds.amountMinor) }).from(refunds).where(eq(refunds.orderId, order.id))
-    const remaining = order.totalMinor - Number(asked?.total ?? 0)
+    const remaining = order.totalMinor - Math.max(Number(asked?.total ?? 0), order.refundedMinor)
     const amountMinor = input.amountMinor ?? remaining
     if (amountMinor <= 0 || amountMinor > remaining) throw fieldError('amountMinor', `at most ${formatMoney(Math.max(0, remaining), order.currency)} is left to refund`)
     const [row] = await tx.insert(refunds).values({ orderId: order.id, amountMinor, reason: input.reason, restock: input.restock, createdBy: maker.id }).returning()
@@ -38,8 +39,13 @@ export default defineEventHandler(async (event) => {
     await db.update(refunds).set({ providerRefundId: providerRefund.id }).where(eq(refunds.id, refund.row.id))
   }
   catch (error) {
-    await db.delete(refunds).where(eq(refunds.id, refund.row.id))
-    throw createError({ statusCode: 502, statusMessage: 'Payment service error', message: `The refund was not made: ${error instanceof Error ? error.message : 'the payment service did not answer'}.` })
+    // Only a refusal means no refund was made; after a timeout it may have been, so the row stays
+    // (still counted against what is left) until the payment service's event settles it.
+    if (error instanceof Stripe.errors.StripeInvalidRequestError || error instanceof Stripe.errors.StripeCardError) {
+      await db.delete(refunds).where(eq(refunds.id, refund.row.id))
+      throw createError({ statusCode: 502, statusMessage: 'Payment service error', message: `The refund was refused: ${error.message}.` })
+    }
+    throw createError({ statusCode: 502, statusMessage: 'Payment service error', message: 'The payment service did not answer. The refund may still go through: it is listed as requested; check again in a few minutes before trying again.' })
   }
   setResponseStatus(event, 202)
   return { refundId: refund.row.id, amountMinor: refund.row.amountMinor, status: 'requested' }
