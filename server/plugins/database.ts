@@ -7,6 +7,7 @@ export default defineNitroPlugin((nitroApp) => {
 
   const loop = async () => {
     try {
+      await requeueInterruptedMail()
       await deliverDueMail()
     }
     catch (error) {

@@ -69,6 +69,8 @@ function useTransporter(): Transporter {
   return transporter
 }
 
+const sendLeaseMs = 5 * 60_000
+
 export function retryDelayMs(attempts: number, maxMs: number): number {
   return Math.min(maxMs, 1000 * 2 ** Math.min(attempts, 20))
 }
@@ -85,7 +87,8 @@ export async function deliverDueMail(limit = 20): Promise<number> {
     .orderBy(asc(mailOutbox.id)).limit(limit)
   let sent = 0
   for (const { id } of due) {
-    const [claimed] = await db.update(mailOutbox).set({ status: 'sending', attempts: sql`${mailOutbox.attempts} + 1` })
+    // The claim is a lease: nextAttemptAt becomes the time after which the claim counts as abandoned.
+    const [claimed] = await db.update(mailOutbox).set({ status: 'sending', attempts: sql`${mailOutbox.attempts} + 1`, nextAttemptAt: new Date(Date.now() + sendLeaseMs) })
       .where(and(eq(mailOutbox.id, id), eq(mailOutbox.status, 'pending'))).returning()
     if (!claimed) continue
     try {
@@ -112,8 +115,12 @@ export async function deliverDueMail(limit = 20): Promise<number> {
   return sent
 }
 
-/** A message left `sending` by a crash goes back to the queue when the server starts. */
+/**
+ * A message left `sending` by a crash goes back to the queue once its lease has run out — not before,
+ * so another instance that is sending it right now is not doubled.
+ */
 export async function requeueInterruptedMail() {
   const db = await useDB()
-  await db.update(mailOutbox).set({ status: 'pending' }).where(eq(mailOutbox.status, 'sending'))
+  await db.update(mailOutbox).set({ status: 'pending' })
+    .where(and(eq(mailOutbox.status, 'sending'), lte(mailOutbox.nextAttemptAt, new Date())))
 }
