@@ -70,16 +70,24 @@ describe('decoding accepted WAVs', () => {
     expect(samples[1]).toBeCloseTo(32767 / 32768, 9)
   })
 
-  it('reads a view of a larger buffer at an odd byte offset', () => {
-    const bytes = makeSurfaceWav({ seconds: 0.5, seed: 9, bits: 24 })
-    const padded = new Uint8Array(bytes.length + 3)
-    padded.set(bytes, 3)
-    const shifted = decodeWavSamples(padded.subarray(3)).samples
-    const plain = decodeWavSamples(bytes).samples
-    expect(shifted).toEqual(plain)
+  it('reads a view of a larger buffer at any byte offset (typed-array and DataView paths agree)', () => {
+    const formats = [{ bits: 16 }, { bits: 24 }, { bits: 32 }, { sampleFormat: 'float' }] as const
+    for (const format of formats) {
+      for (const channels of [1, 2] as const) {
+        const bytes = makeSurfaceWav({ seconds: 0.2, seed: 9, channels, ...format })
+        const plain = decodeWavSamples(bytes).samples
+        for (const offset of [1, 2, 3]) {
+          const padded = new Uint8Array(bytes.length + offset)
+          padded.set(bytes, offset)
+          expect(decodeWavSamples(padded.subarray(offset)).samples).toEqual(plain)
+        }
+      }
+    }
   })
 })
 
+// Status codes: HTTP semantics (RFC 9110) — 400 Bad Request for an empty body, 415 Unsupported
+// Media Type for formats we do not read, 422 Unprocessable Content for damaged WAVs.
 describe('rejecting what we cannot analyse', () => {
   it('an empty upload → 400', () => {
     const error = inputError(() => decodeWav(new Uint8Array(0)))

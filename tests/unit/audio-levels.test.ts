@@ -106,7 +106,7 @@ describe('cross-check with sox', () => {
 
 describe('sample formats decode to the same levels', () => {
   const base: SurfaceWavOptions = { seconds: 4, levelDbfs: -40, seed: 21, swellDepth: 0.2, clicks: 3 }
-  const variants: Array<[name: string, options: SurfaceWavOptions]> = [
+  const variants: Array<[name: string, options: Partial<SurfaceWavOptions>]> = [
     ['16-bit mono', { bits: 16 }],
     ['24-bit mono', { bits: 24 }],
     ['32-bit int mono', { bits: 32 }],

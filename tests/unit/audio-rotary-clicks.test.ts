@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { analyseSurfaceSamples, analyseSurfaceWav, countClicks, makeSurfaceSignal, makeSurfaceWav } from '../../server/utils/audio'
+import { analyseSurfaceSamples, analyseSurfaceWav, countClicks, encodeWav, makeSurfaceSignal, makeSurfaceWav } from '../../server/utils/audio'
 
 // Rotation frequency = rpm ÷ 60 (PRODUCT.md computation 1; arithmetic): 2.67 Hz at 160 rpm, 2.4 Hz at 144.
 
@@ -28,6 +28,8 @@ describe('once-per-turn (rotary) noise', () => {
   })
 
   it.each([1, 2, 3, 4, 5])('steady noise without a swell is not detected (seed %s) and reads low', (seed) => {
+    // Known answer: the generator adds no swell; the detection threshold (13 dB per bin) is out of
+    // reach of noise alone (rotary.ts), and rotaryDb of noise alone is about −7…+1 dB.
     const result = analyseSurfaceWav(makeSurfaceWav({ seconds: 40, seed, clicks: 6, colour: seed % 2 ? 'white' : 'soft' }))
     expect(result.rotaryDetected).toBe(false)
     expect(result.rotaryHz).toBeNull()
@@ -54,6 +56,22 @@ describe('once-per-turn (rotary) noise', () => {
     expect(Math.abs(result.rotaryHz! - 155.2 / 60)).toBeLessThanOrEqual(0.02)
   })
 
+  it('is not thrown by digital silence before the stylus is set down', () => {
+    const withLeadIn = (swellDepth: number) => {
+      const signal = makeSurfaceSignal({ seconds: 40, swellDepth, seed: 9 })
+      signal.samples.fill(0, 0, 5 * signal.sampleRate)
+      return encodeWav(signal.samples, { sampleRate: signal.sampleRate })
+    }
+    const swelling = analyseSurfaceWav(withLeadIn(0.2))
+    expect(swelling.rotaryDetected).toBe(true)
+    expect(Math.abs(swelling.rotaryHz! - 160 / 60)).toBeLessThanOrEqual(0.1)
+    const steady = analyseSurfaceWav(withLeadIn(0))
+    expect(steady.rotaryDetected).toBe(false)
+    expect(steady.rotaryDb!).toBeLessThan(6)
+    // A clean start of the noise after silence is not a click either.
+    expect(steady.clickCount).toBe(0)
+  })
+
   it('is not judged on a recording shorter than ten turns', () => {
     const result = analyseSurfaceWav(makeSurfaceWav({ seconds: 3, swellDepth: 0.5 }))
     expect(result.rotaryDb).toBeNull()
@@ -64,6 +82,7 @@ describe('once-per-turn (rotary) noise', () => {
 
 describe('clicks', () => {
   it('a file with 12 clicks in 60 s reports 12 ± 1 per minute, at the right times', () => {
+    // Known answer: the generator placed the clicks and reports where.
     const signal = makeSurfaceSignal({ seconds: 60, clicks: 12, seed: 12 })
     const result = analyseSurfaceSamples(signal.samples, signal.sampleRate)
     expect(Math.abs(result.clicksPerMinute - 12)).toBeLessThanOrEqual(1)
@@ -72,16 +91,19 @@ describe('clicks', () => {
   })
 
   it('still counts them under a strong once-per-turn swell and in a 16-bit file', () => {
+    // Known answer from the generator (12 clicks).
     const result = analyseSurfaceWav(makeSurfaceWav({ seconds: 60, clicks: 12, swellDepth: 0.5, seed: 13 }))
     expect(Math.abs(result.clicksPerMinute - 12)).toBeLessThanOrEqual(1)
   })
 
   it.each([-30, -50, -70])('a file with no clicks at %s dBFS reports ~0 per minute', (levelDbfs) => {
+    // Known answer from the generator (no clicks); Gaussian noise never reaches 6.8 σ in 30 s.
     const result = analyseSurfaceWav(makeSurfaceWav({ seconds: 30, levelDbfs, seed: 14, swellDepth: 0.3 }))
     expect(result.clicksPerMinute).toBeLessThanOrEqual(0.5)
   })
 
   it('scales with the rate: 30 clicks in 30 s are 60 per minute', () => {
+    // Arithmetic on the generator's known answer.
     const result = analyseSurfaceWav(makeSurfaceWav({ seconds: 30, clicks: 30, seed: 15 }))
     expect(Math.abs(result.clicksPerMinute - 60)).toBeLessThanOrEqual(2)
   })

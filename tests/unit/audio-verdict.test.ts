@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { ZodError } from 'zod'
 import {
   analyseSurfaceWav,
+  encodeWav,
   judgeSurface,
   makeSurfaceWav,
   makeToneWav,
@@ -86,6 +87,16 @@ describe('verdict', () => {
 })
 
 describe('end to end on generated surfaces', () => {
+  it('a silent recording fails for that one reason', () => {
+    const silence = encodeWav(new Float32Array(44100 * 20), { sampleRate: 44100 })
+    const result = analyseSurfaceWav(silence)
+    expect(result.verdict).toBe('fail')
+    expect(result.reasons).toHaveLength(1)
+    expect(result.reasons[0]).toMatch(/silent/)
+    expect(result.peakDbfs).toBe(-160)
+    expect(JSON.parse(JSON.stringify(result))).toEqual(result)
+  })
+
   it('a quiet, steady surface passes', () => {
     const result = analyseSurfaceWav(makeSurfaceWav({ seconds: 20, levelDbfs: -58, clicks: 1, seed: 31 }))
     expect(result.verdict).toBe('pass')

@@ -272,6 +272,8 @@ export function designAWeightingFilter(sampleRate: number): AWeightingFilter {
   shelf.b2 *= gain
 
   const filter: AWeightingFilter = { sampleRate, sections }
+  // Uploads come in a handful of rates; a bound keeps odd ones from piling up.
+  if (designCache.size >= 32) designCache.clear()
   designCache.set(sampleRate, filter)
   return filter
 }

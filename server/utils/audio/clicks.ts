@@ -3,17 +3,18 @@
 // Method:
 //  1. High-pass by first difference, d[n] = x[n] − x[n−1]: a click's steep edge stands out;
 //     rumble, hum and the slow once-per-turn swell do not.
-//  2. Local scale per 50 ms block: the median of |d| over the block (the median absolute
-//     deviation, d being zero-mean), estimated from every 8th step (≈ 275 values at 44.1 kHz).
-//     A click lasts a millisecond or two, so it cannot move a median over 50 ms. Each block's
-//     threshold uses the largest scale of itself and its two neighbours, so the onset of a louder
-//     passage is not taken for a click.
-//  3. A click is an excursion |d[n]| > k × scale with k = 10 (for Gaussian noise that is 6.7 σ
-//     of d: about one false click per 10⁴ minutes of audio), and never below 10⁻⁴ (−80 dBFS),
-//     so digital silence or a lone LSB step is not a click.
+//  2. Local scale: the mean absolute deviation of d over each 10 ms frame (d is zero-mean), then
+//     the running median of those over 11 frames (±50 ms). A click lasts a millisecond or two, so
+//     it can lift one or two frames' mean but not the median of eleven — the median makes the
+//     scale robust, and taking it over frame means rather than over every sample keeps it cheap
+//     (a per-sample median over 50 ms cost more than the whole rest of the analysis).
+//  3. A click is an excursion |d[n]| > k × scale with k = 8.5. For Gaussian noise the mean
+//     absolute deviation is 0.80 σ, so that is 6.8 σ of d: about one false click per 10⁴ minutes
+//     of audio. (In median-absolute-deviation terms, which is 0.67 σ, k would be 10.) Never below
+//     10⁻⁴ (−80 dBFS), so digital silence or a lone LSB step is not a click.
 //  4. After a click, 30 ms of dead time, so one click (and its ringing) is counted once.
-// The streaming pass (levels.ts) records the largest |d| of every 10 ms frame; only frames whose
-// largest step crosses their threshold are read again to place the clicks exactly.
+// The streaming pass (levels.ts) records the mean and the largest |d| of every frame; only frames
+// whose largest step crosses their threshold are read again, to place the clicks exactly.
 import type { MonoSampleSource } from './decode'
 import type { SurfacePass } from './levels'
 
@@ -28,74 +29,48 @@ export interface ClickResult {
   timesS: number[]
 }
 
-export const CLICK_DEFAULTS = { k: 10, deadTimeSeconds: 0.03, minimumThreshold: 1e-4, blockSeconds: 0.05 } as const
+export const CLICK_DEFAULTS = { k: 8.5, deadTimeSeconds: 0.03, minimumThreshold: 1e-4, medianFrames: 11 } as const
 
-const STEP_SUBSAMPLE = 8
 const MAX_REPORTED_TIMES = 1000
 
-/** The k-th smallest of values[0 … length−1] (reorders them): Hoare's quickselect. */
-export function selectKth(values: Float32Array, length: number, k: number): number {
-  let left = 0
-  let right = length - 1
-  while (right > left) {
-    const pivot = values[(left + right) >> 1]!
-    let i = left
-    let j = right
-    while (i <= j) {
-      while (values[i]! < pivot) i++
-      while (values[j]! > pivot) j--
-      if (i <= j) {
-        const t = values[i]!
-        values[i] = values[j]!
-        values[j] = t
-        i++
-        j--
+/** Running median of `values` over `width` (odd) neighbours, the window clipped at the ends. */
+function runningMedian(values: Float32Array, width: number): Float32Array {
+  const n = values.length
+  const half = width >> 1
+  const out = new Float32Array(n)
+  const window = new Float64Array(width)
+  for (let i = 0; i < n; i++) {
+    const from = Math.max(0, i - half)
+    const to = Math.min(n - 1, i + half)
+    let count = 0
+    for (let j = from; j <= to; j++) {
+      // Insertion sort: eleven values, no allocation.
+      const value = values[j]!
+      let k = count++
+      while (k > 0 && window[k - 1]! > value) {
+        window[k] = window[k - 1]!
+        k--
       }
+      window[k] = value
     }
-    if (k <= j) right = j
-    else if (k >= i) left = i
-    else break
+    out[i] = count % 2 ? window[count >> 1]! : 0.5 * (window[(count >> 1) - 1]! + window[count >> 1]!)
   }
-  return values[k]!
-}
-
-/**
- * For each block of `blockLength` samples in buffer[0 … count−1], the median |step| from every
- * 8th step, written to out[firstBlock …]. Called by the streaming pass for each chunk.
- */
-export function collectBlockStepMedians(
-  buffer: Float32Array,
-  count: number,
-  blockLength: number,
-  out: Float32Array,
-  firstBlock: number,
-  scratch: Float32Array,
-): void {
-  for (let blockStart = 0, block = firstBlock; blockStart < count; blockStart += blockLength, block++) {
-    const blockEnd = Math.min(count, blockStart + blockLength)
-    let m = 0
-    for (let i = blockStart + 1; i < blockEnd; i += STEP_SUBSAMPLE) scratch[m++] = Math.abs(buffer[i]! - buffer[i - 1]!)
-    out[block] = m > 0 ? selectKth(scratch, m, m >> 1) : 0
-  }
+  return out
 }
 
 /** Find the clicks from the pass' statistics, re-reading only frames that may hold one. */
 export function findClicks(source: MonoSampleSource, pass: SurfacePass, options: ClickOptions = {}): ClickResult {
   const k = options.k ?? CLICK_DEFAULTS.k
   const deadTime = Math.round((options.deadTimeSeconds ?? CLICK_DEFAULTS.deadTimeSeconds) * source.sampleRate)
-  const { frameLength, framesPerBlock, frameMaxStep, blockStepMedian } = pass
-  const blocks = blockStepMedian.length
-  const thresholdOfBlock = (b: number) => {
-    const local = Math.max(blockStepMedian[b]!, b > 0 ? blockStepMedian[b - 1]! : 0, b + 1 < blocks ? blockStepMedian[b + 1]! : 0)
-    return Math.max(k * local, CLICK_DEFAULTS.minimumThreshold)
-  }
+  const { frameLength, frameMaxStep } = pass
+  const scale = runningMedian(pass.frameMeanStep, CLICK_DEFAULTS.medianFrames)
 
   const frame = new Float32Array(frameLength + 1)
   const timesS: number[] = []
   let count = 0
   let quietUntil = -1
   for (let f = 0; f < frameMaxStep.length; f++) {
-    const threshold = thresholdOfBlock(Math.floor(f / framesPerBlock))
+    const threshold = Math.max(k * scale[f]!, CLICK_DEFAULTS.minimumThreshold)
     if (!(frameMaxStep[f]! > threshold)) continue
     const start = f * frameLength
     const end = Math.min(source.frames, start + frameLength)

@@ -83,10 +83,11 @@ type WaveFileInstance = InstanceType<typeof wavefileModule.WaveFile>
 type WaveFileConstructor = new () => WaveFileInstance
 
 // wavefile ships a UMD bundle (main) and ES sources (module); depending on the loader the class is
-// a named export or hangs off the CommonJS default export.
+// a named export or hangs off the CommonJS default export. (Reflect.get, so that bundlers reading
+// the ES sources do not warn about a default export those do not have.)
 const WaveFile: WaveFileConstructor
   = (wavefileModule as unknown as { WaveFile?: WaveFileConstructor }).WaveFile
-    ?? (wavefileModule as unknown as { default: { WaveFile: WaveFileConstructor } }).default.WaveFile
+    ?? (Reflect.get(wavefileModule, 'default') as { WaveFile: WaveFileConstructor }).WaveFile
 
 interface WaveFmtFields {
   chunkId: string
@@ -168,7 +169,10 @@ function checkChunkLayout(bytes: Uint8Array): ChunkLayout {
       }
     }
     else {
-      if (id === 'fmt ') sawFmt = true
+      if (id === 'fmt ') {
+        if (size < 16) throw new AudioInputError(422, 'bad-header', 'This WAV file\'s format section is incomplete.')
+        sawFmt = true
+      }
       if (bodyEnd > length && data === null) {
         throw new AudioInputError(422, 'truncated', 'This WAV file is cut short: it ends inside its header. Upload the whole file again.')
       }
@@ -266,8 +270,53 @@ function checkFormat(fmt: WaveFmtFields): { channels: 1 | 2, bits: 16 | 24 | 32,
   return { channels: fmt.numChannels as 1 | 2, bits: bits as 16 | 24 | 32, sampleFormat: tag === WAVE_FORMAT_IEEE_FLOAT ? 'float' : 'int' }
 }
 
+const HOST_IS_LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1
+
+/**
+ * The common case — a little-endian host and samples aligned in memory — reads through a typed
+ * array view, about twice as fast as DataView; otherwise DataView (or bytes, for 24-bit).
+ */
+function makeAlignedMonoReader(data: Uint8Array, channels: 1 | 2, bits: 16 | 32, sampleFormat: WavSampleFormat): MonoSampleSource['readMono'] | null {
+  const bytesPerSample = bits / 8
+  if (!HOST_IS_LITTLE_ENDIAN || data.byteOffset % bytesPerSample !== 0) return null
+  const length = data.byteLength / bytesPerSample
+  if (sampleFormat === 'float') {
+    const samples = new Float32Array(data.buffer, data.byteOffset, length)
+    return channels === 1
+      ? (start, count, out) => out.set(samples.subarray(start, start + count))
+      : (start, count, out) => {
+          for (let i = 0, p = start * 2; i < count; i++, p += 2) out[i] = 0.5 * (samples[p]! + samples[p + 1]!)
+        }
+  }
+  // Separate closures per array type keep each loop monomorphic.
+  if (bits === 16) {
+    const samples = new Int16Array(data.buffer, data.byteOffset, length)
+    const scale = 1 / 32768
+    return channels === 1
+      ? (start, count, out) => {
+          for (let i = 0, p = start; i < count; i++, p++) out[i] = samples[p]! * scale
+        }
+      : (start, count, out) => {
+          for (let i = 0, p = start * 2; i < count; i++, p += 2) out[i] = (samples[p]! + samples[p + 1]!) * (0.5 * scale)
+        }
+  }
+  const samples = new Int32Array(data.buffer, data.byteOffset, length)
+  const scale = 1 / 2147483648
+  return channels === 1
+    ? (start, count, out) => {
+        for (let i = 0, p = start; i < count; i++, p++) out[i] = samples[p]! * scale
+      }
+    : (start, count, out) => {
+        for (let i = 0, p = start * 2; i < count; i++, p += 2) out[i] = (samples[p]! + samples[p + 1]!) * (0.5 * scale)
+      }
+}
+
 /** A reader that converts interleaved little-endian frames of `data` to mono floats. */
 function makeMonoReader(data: Uint8Array, channels: 1 | 2, bits: 16 | 24 | 32, sampleFormat: WavSampleFormat): MonoSampleSource['readMono'] {
+  if (bits !== 24) {
+    const aligned = makeAlignedMonoReader(data, channels, bits, sampleFormat)
+    if (aligned) return aligned
+  }
   const view = new DataView(data.buffer, data.byteOffset, data.byteLength)
   if (sampleFormat === 'float') {
     return channels === 1
@@ -315,8 +364,8 @@ function makeMonoReader(data: Uint8Array, channels: 1 | 2, bits: 16 | 24 | 32, s
 /**
  * Decode a WAV upload (RIFF/WAVE; PCM 16/24/32-bit, IEEE float 32-bit, or WAVE_FORMAT_EXTENSIBLE
  * with those; mono or stereo; 22.05–96 kHz) into a reader of mono float samples (nothing is
- * converted until asked for). Throws AudioInputError with a
- * message meant for the maker for anything else.
+ * converted until asked for). Throws AudioInputError, with a message meant for the maker, for
+ * anything else.
  */
 export function decodeWav(input: Uint8Array): DecodedWav {
   if (input.length === 0) {

@@ -11,8 +11,9 @@ export function nextPowerOfTwo(n: number): number {
 
 const hannCache = new Map<number, Float64Array>()
 
-/** Periodic Hann window of a length (cached). */
+/** Periodic Hann window of a power-of-two length (cached: there are only a few such sizes). */
 export function hannWindow(length: number): Float64Array {
+  if (length & (length - 1)) throw new RangeError('hannWindow: the length must be a power of two')
   const cached = hannCache.get(length)
   if (cached) return cached
   const window = new Float64Array(length)

@@ -1,12 +1,12 @@
 // The surface-test audio engine: pure TypeScript, no Nitro or Vue. Import from here, e.g.
 // `import { analyseSurfaceWav, AudioInputError } from '~~/server/utils/audio'`.
-export { analyseSurfaceWav, analyseSurfaceSamples, analyseSurfaceSource, countClicks, DEFAULT_SURFACE_RPM, ENVELOPE_FRAME_SECONDS, ENVELOPE_MAX_POINTS } from './analyse'
+export { analyseSurfaceWav, analyseSurfaceSamples, analyseSurfaceSource, countClicks, DEFAULT_SURFACE_RPM, ENVELOPE_MAX_POINTS } from './analyse'
 export type { SurfaceAnalysis, SurfaceAnalysisOptions } from './analyse'
 export { decodeWav, decodeWavSamples, monoSourceFromSamples, AudioInputError, SURFACE_WAV_LIMITS } from './decode'
 export type { AudioInputStatus, DecodedWav, MonoSampleSource, WavSampleFormat } from './decode'
 export { aWeightingDb, aWeightingPowerGain, aWeightingFilterResponseDb, designAWeightingFilter, A_WEIGHTING_POLES_HZ } from './aWeighting'
 export type { AWeightingFilter, Biquad } from './aWeighting'
-export { AES17_RMS_OFFSET_DB, DB_FLOOR, runSurfacePass } from './levels'
+export { AES17_RMS_OFFSET_DB, DB_FLOOR, FRAME_SECONDS, runSurfacePass } from './levels'
 export type { SurfacePass } from './levels'
 export { measureRotary, MIN_ROTATIONS_FOR_ROTARY } from './rotary'
 export type { RotaryMeasure } from './rotary'

@@ -1,6 +1,6 @@
 // One streaming pass over the recording for everything that needs every sample: sample peak,
 // mean square, A-weighted mean square, per-frame energies (plain and A-weighted, 10 ms frames) for
-// the envelopes, and the per-frame / per-block statistics the click detector needs.
+// the envelopes, and the per-frame step statistics the click detector needs.
 //
 // Speed notes (this is the hot loop of the analysis, ~6.6 M samples for a 150 s recording):
 //  * the source is read in chunks into one reusable Float32Array — touching fresh memory costs a
@@ -11,7 +11,6 @@
 //  * no data-dependent branches (Math.abs / Math.max, not `x < 0 ? …`): random signs would make
 //    a branch mispredict half the time.
 import { designAWeightingFilter } from './aWeighting'
-import { collectBlockStepMedians } from './clicks'
 import type { MonoSampleSource } from './decode'
 
 /** AES17 / IEC 61606: RMS dBFS of a full-scale sine is 0, so add 10·log10(2) to 20·log10(rms). */
@@ -25,9 +24,8 @@ export function toDb(power: number): number {
 }
 
 export const FRAME_SECONDS = 0.01
-/** Click statistics use blocks of five frames (50 ms). */
-export const FRAMES_PER_BLOCK = 5
-const BLOCKS_PER_CHUNK = 32
+/** Frames converted and processed per read (1.6 s): small enough to stay in cache. */
+const FRAMES_PER_CHUNK = 160
 
 export interface SurfacePass {
   sampleRate: number
@@ -42,10 +40,8 @@ export interface SurfacePass {
   lastFrameLength: number
   /** Largest |x[i] − x[i−1]| within each frame. */
   frameMaxStep: Float32Array
-  blockLength: number
-  framesPerBlock: number
-  /** Median |x[i] − x[i−1]| per block, estimated from every 8th step. */
-  blockStepMedian: Float32Array
+  /** Mean |x[i] − x[i−1]| over each frame. */
+  frameMeanStep: Float32Array
 }
 
 export function frameLengthFor(sampleRate: number): number {
@@ -55,18 +51,16 @@ export function frameLengthFor(sampleRate: number): number {
 export function runSurfacePass(source: MonoSampleSource): SurfacePass {
   const { sampleRate, frames: n } = source
   const frameLength = frameLengthFor(sampleRate)
-  const blockLength = frameLength * FRAMES_PER_BLOCK
-  const chunkLength = blockLength * BLOCKS_PER_CHUNK
+  const chunkLength = frameLength * FRAMES_PER_CHUNK
   const frameCount = Math.ceil(n / frameLength)
   const frameEnergy = new Float64Array(frameCount)
   const aWeightedFrameEnergy = new Float64Array(frameCount)
   const frameMaxStep = new Float32Array(frameCount)
-  const blockStepMedian = new Float32Array(Math.ceil(n / blockLength))
+  const frameMeanStep = new Float32Array(frameCount)
   const buffer = new Float32Array(Math.min(chunkLength, Math.max(1, n)))
-  const scratch = new Float32Array(blockLength)
 
-  // Direct form I with shared histories. Sections 1 and 2 have the numerator 1 − 2z⁻¹ + z⁻²
-  // (checked in aWeighting.ts), i.e. a second difference: with d = x[n] − x[n−1] (also the click
+  // Direct form I with shared histories. Sections 1 and 2 have the numerator 1 − 2z⁻¹ + z⁻² (by
+  // construction, see aWeighting.ts), a second difference: with d = x[n] − x[n−1] (also the click
   // detector's step) it is d − d_prev, and likewise for section 2 on y1. Sections 3 and 4 are
   // scaled to b0 = 1 and their gains applied once per frame.
   const [s1, s2, s3, s4] = designAWeightingFilter(sampleRate).sections
@@ -96,12 +90,15 @@ export function runSurfacePass(source: MonoSampleSource): SurfacePass {
       let aSum = 0
       let maxAbs = 0
       let maxStep = 0
+      let stepSum = 0
       for (let i = frameStart; i < frameEnd; i++) {
         const x = buffer[i]!
         sum += x * x
         maxAbs = Math.max(maxAbs, Math.abs(x))
         const d = x - x1
-        maxStep = Math.max(maxStep, Math.abs(d))
+        const step = Math.abs(d)
+        maxStep = Math.max(maxStep, step)
+        stepSum += step
         // The y_prev term last: it is the one on the recursive critical path.
         const y1 = d - d1 - a12 * y1pp - a11 * y1p
         const e = y1 - y1p
@@ -123,11 +120,11 @@ export function runSurfacePass(source: MonoSampleSource): SurfacePass {
       frameEnergy[frame] = sum
       aWeightedFrameEnergy[frame] = aSum
       frameMaxStep[frame] = maxStep
+      frameMeanStep[frame] = stepSum / (frameEnd - frameStart)
       peak = Math.max(peak, maxAbs)
       total += sum
       aTotal += aSum
     }
-    collectBlockStepMedians(buffer, count, blockLength, blockStepMedian, chunkStart / blockLength, scratch)
   }
 
   return {
@@ -141,8 +138,6 @@ export function runSurfacePass(source: MonoSampleSource): SurfacePass {
     aWeightedFrameEnergy,
     lastFrameLength: n - (frameCount - 1) * frameLength,
     frameMaxStep,
-    blockLength,
-    framesPerBlock: FRAMES_PER_BLOCK,
-    blockStepMedian,
+    frameMeanStep,
   }
 }

@@ -3,7 +3,8 @@
 //
 // Method:
 //  1. The level envelope: A-weighted energy in 10 ms frames (100 frames/s), in dB. Working in dB
-//     makes the measure independent of the overall level and squashes the odd click.
+//     makes the measure independent of the overall level and squashes the odd click. Frames more
+//     than 30 dB under the median level (silence before the stylus is down) are raised to that.
 //  2. A 5-frame running median removes single-frame spikes (clicks) without touching a swell
 //     whose period is 375 ms or more.
 //  3. Remove the mean and the linear trend (a level that drifts across the cylinder is not
@@ -27,7 +28,7 @@
 //     (a 0.17 dB swing is found); whether it matters is for the thresholds on rotaryDb.
 //  rotarySwingDb: the peak-to-peak swing of a sinusoid carrying the lines' power less the noise
 //  expected in them; it follows the true level swing within a few per cent (see the tests).
-import { addPowerSpectrum, hannWindow, nextPowerOfTwo } from './fftPower'
+import { addPowerSpectrum, nextPowerOfTwo } from './fftPower'
 
 export interface RotaryMeasure {
   rotaryDb: number | null
@@ -92,6 +93,11 @@ export function measureRotary(frameEnergy: Float64Array, frameLength: number, fr
 
   const levelDb = new Float64Array(frames)
   for (let i = 0; i < frames; i++) levelDb[i] = 10 * Math.log10(frameEnergy[i]! / frameLength + 1e-20)
+  // Stretches of (near) digital silence, e.g. before the stylus is set down, would otherwise be
+  // deep holes in a dB envelope and smear over the whole spectrum: floor them 30 dB under the
+  // typical level.
+  const floorDb = median(levelDb) - 30
+  for (let i = 0; i < frames; i++) levelDb[i] = Math.max(levelDb[i]!, floorDb)
   const envelope = medianOfFive(levelDb)
 
   // Remove mean and linear trend (least squares against a centred time axis).
@@ -109,10 +115,9 @@ export function measureRotary(frameEnergy: Float64Array, frameLength: number, fr
 
   const size = nextPowerOfTwo(2 * frames)
   const windowed = new Float64Array(size)
-  const window = hannWindow(frames)
   let windowPower = 0
   for (let i = 0; i < frames; i++) {
-    const w = window[i]!
+    const w = 0.5 - 0.5 * Math.cos((2 * Math.PI * i) / frames)
     windowed[i] = w * (envelope[i]! - mean - slope * (i - centre))
     windowPower += w * w
   }
@@ -151,7 +156,7 @@ export function measureRotary(frameEnergy: Float64Array, frameLength: number, fr
       lineBins++
     }
   }
-  const rotaryDb = 10 * Math.log10(linePower / restPsd)
+  const rotaryDb = 10 * Math.log10(Math.max(linePower, 1e-12 * restPsd) / restPsd)
   const rotaryDetected = power[peakBin]! >= DETECTION_RATIO * restPsd
   const swellPower = Math.max(0, linePower - restPsd * lineBins * binHz)
   return {

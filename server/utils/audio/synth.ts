@@ -8,7 +8,7 @@
 // noise's RMS. Stereo files carry the same signal in both channels, so they read the same level
 // as the mono file.
 
-export const AES17_OFFSET_DB = 10 * Math.log10(2)
+const AES17_OFFSET_DB = 10 * Math.log10(2)
 
 export type SynthSampleFormat = 'int' | 'float'
 

@@ -62,7 +62,8 @@ export function judgeSurface(inputs: VerdictInputs, thresholds: SurfaceThreshold
     }
   }
 
-  if (inputs.peakDbfs <= SILENCE_PEAK_DBFS) {
+  const silent = inputs.peakDbfs <= SILENCE_PEAK_DBFS
+  if (silent) {
     raise('fail')
     reasons.push(`The recording is silent (peak ${format(inputs.peakDbfs)} dBFS): check the pickup and the recording level, then record the play-through again.`)
   }
@@ -74,10 +75,14 @@ export function judgeSurface(inputs: VerdictInputs, thresholds: SurfaceThreshold
   )
 
   if (inputs.rotaryDb === null) {
-    raise('marginal')
-    reasons.push(
-      `The recording is too short (${format(inputs.durationS)} s) to judge once-per-turn noise; record at least ${Math.ceil(inputs.minimumRotarySeconds)} s of the play-through.`,
-    )
+    if (!silent) {
+      raise('marginal')
+      reasons.push(
+        inputs.durationS < inputs.minimumRotarySeconds
+          ? `The recording is too short (${format(inputs.durationS)} s) to judge once-per-turn noise; record at least ${Math.ceil(inputs.minimumRotarySeconds)} s of the play-through.`
+          : 'Once-per-turn noise could not be measured: the level of this recording does not vary at all, which a real surface never does.',
+      )
+    }
   }
   else {
     const rotaryDb = inputs.rotaryDb
