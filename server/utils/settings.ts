@@ -7,6 +7,8 @@ import type { Database, Transaction } from './db'
 const settingSchemas = {
   shop: shopProfileSchema,
   engine: engineSettingsSchema,
+  // The maker's limits for a surface test's verdict (server/utils/audio/verdict.ts).
+  surface: surfaceThresholdsSchema,
 } satisfies Record<string, ZodType>
 
 export type SettingKey = keyof typeof settingSchemas

@@ -1,0 +1,39 @@
+/**
+ * A surface test of the blank's current surface: the play-through WAV (multipart `file`) is analysed
+ * against the shop's `surface` limits and stored with the figures, the file, who and when. The final
+ * verdict follows the computed one (marginal passes) unless the maker overrules it with a reason.
+ */
+export default defineEventHandler(async (event) => {
+  const maker = await requireRole(event, 'maker')
+  const code = blankCodeParam(event)
+  const db = await useDB()
+  // Refuse before reading a large upload when no test can be taken now; checked again when stored.
+  await assertBlankAction(db, await findBlankByCode(db, code), 'surfaceTest')
+  const upload = await readSurfaceWavUpload(event)
+  const fields = surfaceFieldsWith(upload.fields, surfaceTestUploadFieldsSchema)
+  const analysis = analyseSurfaceUpload(upload.bytes, { rpm: fields.rpm, thresholds: await getSetting('surface', db) })
+  if (analysis.rotaryDb === null) {
+    const seconds = Math.ceil((MIN_ROTATIONS_FOR_ROTARY * 60) / fields.rpm) + 1
+    throw createError({ statusCode: 422, statusMessage: 'Unprocessable Content', message: `file: the recording is ${analysis.durationS.toFixed(1)} s long, too short to judge once-per-turn noise; record at least ${seconds} s of the play-through.`, data: { fields: { file: `record at least ${seconds} s` } } })
+  }
+  const finalVerdict = fields.finalVerdict ?? surfaceVerdictWithoutOverrule(analysis.verdict)
+  const overruled = isSurfaceOverrule(analysis.verdict, finalVerdict)
+  if (overruled && !fields.overruleReason) throw fieldError('overruleReason', SURFACE_OVERRULE_REASON_REQUIRED)
+
+  const test = await db.transaction(async (tx) => {
+    const blank = await lockBlankByCode(tx, code)
+    await assertBlankAction(tx, blank, 'surfaceTest')
+    return await recordBlankSurfaceTest(tx, blank, {
+      bytes: upload.bytes,
+      fileName: upload.fileName,
+      rpm: fields.rpm,
+      analysis,
+      finalVerdict,
+      overruleReason: fields.overruleReason ?? null,
+      listeningNotes: fields.listeningNotes,
+      byUserId: maker.id,
+    })
+  })
+  setResponseStatus(event, 201)
+  return surfaceTestView(test, maker.name)
+})

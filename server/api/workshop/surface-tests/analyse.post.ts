@@ -1,0 +1,12 @@
+/**
+ * Analyses a surface-test WAV without storing anything (multipart `file`, optional `rpm`), against
+ * the shop's `surface` limits. Too large by its declared size → 413 before the body is read; a file
+ * the engine cannot read → its status (400, 413, 415, 422) with its message.
+ */
+export default defineEventHandler(async (event) => {
+  await requireRole(event, 'maker')
+  const upload = await readSurfaceWavUpload(event)
+  const { rpm } = surfaceFieldsWith(upload.fields, surfaceAnalyseFieldsSchema)
+  const thresholds = await getSetting('surface')
+  return analyseSurfaceUpload(upload.bytes, { rpm, thresholds })
+})

@@ -1,0 +1,45 @@
+import { desc, eq, sql } from 'drizzle-orm'
+import { blanks, surfaceTests, waxBatches } from '../db/schema'
+import type { Database, Transaction } from './db'
+
+export type WaxBatchRow = typeof waxBatches.$inferSelect
+
+const testedBlank = sql`exists (select 1 from ${surfaceTests} where ${surfaceTests.blankId} = ${blanks.id})`
+const passedBlank = sql`exists (select 1 from ${surfaceTests} where ${surfaceTests.blankId} = ${blanks.id} and ${surfaceTests.finalVerdict} = 'pass')`
+
+/**
+ * Every batch with its blanks counted. Yield = blanks that passed a surface test ÷ blanks tested
+ * (a blank that failed, was reshaved and then passed counts as passed); null until one is tested.
+ */
+export async function listWaxBatchesWithYield(db: Database) {
+  const rows = await db.select({
+    batch: waxBatches,
+    blanks: sql<number>`count(${blanks.id})::int`,
+    tested: sql<number>`(count(${blanks.id}) filter (where ${testedBlank}))::int`,
+    passed: sql<number>`(count(${blanks.id}) filter (where ${passedBlank}))::int`,
+    ready: sql<number>`(count(${blanks.id}) filter (where ${blanks.state} = 'tested_pass'))::int`,
+    scrapped: sql<number>`(count(${blanks.id}) filter (where ${blanks.state} = 'scrapped'))::int`,
+  }).from(waxBatches).leftJoin(blanks, eq(blanks.batchId, waxBatches.id))
+    .groupBy(waxBatches.id).orderBy(desc(waxBatches.pourDate), desc(waxBatches.id))
+  return rows.map(({ batch, ...counts }) => ({
+    ...batch,
+    ...counts,
+    yield: counts.tested > 0 ? counts.passed / counts.tested : null,
+  }))
+}
+
+/** A 409 that names the field when a batch code is taken (the unique index decides, not a lookup). */
+export function isWaxBatchCodeTaken(error: unknown): boolean {
+  const cause = (error as { cause?: { code?: string, constraint?: string } })?.cause ?? error as { code?: string, constraint?: string }
+  return cause?.code === '23505'
+}
+
+export function waxBatchCodeTaken(code: string) {
+  return createError({ statusCode: 409, statusMessage: 'Conflict', message: `code: the batch code ${code} is taken`, data: { fields: { code: `${code} is taken by another batch` } } })
+}
+
+export async function findWaxBatch(db: Database | Transaction, id: number): Promise<WaxBatchRow> {
+  const [batch] = await db.select().from(waxBatches).where(eq(waxBatches.id, id)).limit(1)
+  if (!batch) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `No wax batch has the id ${id}.` })
+  return batch
+}

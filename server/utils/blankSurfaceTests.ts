@@ -1,0 +1,149 @@
+import type { H3Event } from 'h3'
+import type { ZodType } from 'zod'
+import { surfaceTests } from '../db/schema'
+import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceAnalysisOptions } from './audio'
+import type { BlankRow } from './blanks'
+import type { Transaction } from './db'
+
+export type SurfaceTestRow = typeof surfaceTests.$inferSelect
+
+export interface SurfaceWavUpload {
+  bytes: Buffer
+  fileName: string | undefined
+  /** The text fields sent beside the file. */
+  fields: Record<string, string>
+}
+
+const statusMessages: Record<number, string> = {
+  400: 'Invalid input',
+  413: 'Payload Too Large',
+  415: 'Unsupported Media Type',
+  422: 'Unprocessable Content',
+}
+
+/**
+ * The play-through WAV from a multipart request (field `file`, other fields as text). The declared
+ * size is checked before a byte is read: the multipart parser holds the whole body in memory.
+ */
+export async function readSurfaceWavUpload(event: H3Event): Promise<SurfaceWavUpload> {
+  checkDeclaredSize(event, 'surface_test')
+  if (!/^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')) {
+    throw fieldError('file', 'send the WAV as multipart/form-data in a field named "file"')
+  }
+  const parts = await readMultipartFormData(event)
+  const file = parts?.find(part => part.name === 'file' && part.filename !== undefined)
+  if (!file) throw fieldError('file', 'choose the WAV file of the play-through')
+  const limit = uploadLimits.surface_test
+  if (file.data.byteLength > limit.maxBytes) {
+    throw createError({ statusCode: 413, statusMessage: statusMessages[413], message: `file: the recording is larger than ${limit.label}; nothing was stored.`, data: { fields: { file: `larger than ${limit.label}` } } })
+  }
+  const fields: Record<string, string> = {}
+  for (const part of parts ?? []) {
+    if (part.name && part.name !== 'file' && part.filename === undefined) fields[part.name] = part.data.toString('utf8')
+  }
+  return { bytes: file.data, fileName: file.filename, fields }
+}
+
+/** Form fields checked like a JSON body: a 400 naming each field. Empty fields count as left out. */
+export function surfaceFieldsWith<T>(fields: Record<string, string>, schema: ZodType<T>): T {
+  const given = Object.fromEntries(Object.entries(fields).filter(([, value]) => value.trim() !== ''))
+  const parsed = schema.safeParse(given)
+  if (parsed.success) return parsed.data
+  const messages: Record<string, string> = {}
+  for (const issue of parsed.error.issues) messages[issue.path.map(String).join('.') || 'body'] ??= issue.message
+  throw createError({
+    statusCode: 400,
+    statusMessage: statusMessages[400],
+    message: Object.entries(messages).map(([field, message]) => `${field}: ${message}`).join('; '),
+    data: { fields: messages },
+  })
+}
+
+/** The audio engine's analysis; a file it cannot read answers with its status and its message. */
+export function analyseSurfaceUpload(bytes: Uint8Array, options: SurfaceAnalysisOptions): SurfaceAnalysis {
+  try {
+    return analyseSurfaceWav(bytes, options)
+  }
+  catch (error) {
+    if (error instanceof AudioInputError) {
+      throw createError({
+        statusCode: error.statusCode,
+        statusMessage: statusMessages[error.statusCode] ?? 'Bad Request',
+        message: error.message,
+        data: { code: error.code, fields: { file: error.message } },
+      })
+    }
+    throw error
+  }
+}
+
+/** A stored test as the blank's page shows it. */
+export function surfaceTestView(test: SurfaceTestRow, testedByName: string | null) {
+  return {
+    id: test.id,
+    surface: test.surface,
+    rpm: test.rpm,
+    fileUrl: test.fileId ? storedFileUrl(test.fileId) : null,
+    aWeightedDbfs: test.aWeightedDbfs,
+    rotaryDb: test.rotaryDb,
+    clicksPerMinute: test.clicksPerMinute,
+    computedVerdict: test.computedVerdict,
+    finalVerdict: test.finalVerdict,
+    overruled: isSurfaceOverrule(test.computedVerdict, test.finalVerdict),
+    overruleReason: test.overruleReason,
+    listeningNotes: test.listeningNotes,
+    testedBy: testedByName,
+    testedAt: test.testedAt,
+    figures: test.figures as unknown as SurfaceAnalysis,
+  }
+}
+
+export interface BlankSurfaceTestInput {
+  bytes: Uint8Array
+  fileName: string | undefined
+  rpm: number
+  analysis: SurfaceAnalysis
+  finalVerdict: 'pass' | 'fail'
+  overruleReason: string | null
+  listeningNotes: string
+  byUserId: number | null
+  /** Back-dates the test (the demo seed); now when left out. */
+  at?: Date
+}
+
+/**
+ * Stores a test of the blank's current surface inside the caller's transaction (the blank locked and
+ * its state checked): the WAV under a generated id, the figures, and the blank's new state.
+ */
+export async function recordBlankSurfaceTest(tx: Transaction, blank: BlankRow, input: BlankSurfaceTestInput): Promise<SurfaceTestRow> {
+  const surface = blankCurrentSurface(blank.surfacesUsed)
+  if (input.analysis.rotaryDb === null) throw new RangeError('a stored surface test needs a once-per-turn figure')
+  const overruled = isSurfaceOverrule(input.analysis.verdict, input.finalVerdict)
+  const file = await storeFile(tx, {
+    data: input.bytes,
+    mime: 'audio/wav',
+    purpose: 'surface_test',
+    originalName: fileLabel(input.fileName, `${blank.code}-surface-${surface}.wav`),
+    isPublic: false,
+    uploadedBy: input.byUserId,
+  })
+  const [row] = await tx.insert(surfaceTests).values({
+    blankId: blank.id,
+    surface,
+    fileId: file.id,
+    rpm: input.rpm,
+    figures: input.analysis as unknown as Record<string, unknown>,
+    aWeightedDbfs: input.analysis.aWeightedDbfs,
+    rotaryDb: input.analysis.rotaryDb,
+    clicksPerMinute: input.analysis.clicksPerMinute,
+    computedVerdict: input.analysis.verdict,
+    finalVerdict: input.finalVerdict,
+    overruleReason: overruled ? input.overruleReason : null,
+    listeningNotes: input.listeningNotes,
+    testedBy: input.byUserId,
+    ...(input.at ? { testedAt: input.at } : {}),
+  }).returning()
+  const reason = `surface ${surface} tested: ${input.finalVerdict}${overruled ? ' (computed verdict overruled)' : ''}`
+  await changeBlank(tx, blank, { state: blankStateAfterTest(input.finalVerdict) }, reason, input.byUserId, input.at)
+  return row!
+}

@@ -1,0 +1,184 @@
+import { and, asc, count, desc, eq, ilike, inArray, ne, sql, type SQL } from 'drizzle-orm'
+import type { H3Event } from 'h3'
+import { blankCodeCounters, blankLog, blanks, orders, surfaceTests, tickets, waxBatches } from '../db/schema'
+import type { Database, Transaction } from './db'
+
+export type BlankRow = typeof blanks.$inferSelect
+type BlankLogKind = typeof blankLog.$inferInsert['kind']
+
+/**
+ * Draws `n` consecutive codes for this year inside the caller's transaction. The upsert takes the
+ * year's counter row under a row lock until the transaction ends, so concurrent creations queue
+ * behind each other; a rolled-back creation rolls its numbers back too: no gaps, no repeats.
+ */
+export async function drawBlankCodes(tx: Transaction, n: number, at: Date = new Date()): Promise<string[]> {
+  const year = at.getUTCFullYear()
+  const [row] = await tx.insert(blankCodeCounters).values({ year, last: n })
+    .onConflictDoUpdate({ target: blankCodeCounters.year, set: { last: sql`${blankCodeCounters.last} + ${n}` } })
+    .returning({ last: blankCodeCounters.last })
+  const first = row!.last - n + 1
+  return Array.from({ length: n }, (_, i) => formatBlankCode(year, first + i))
+}
+
+/** The blank's code from the route, checked. */
+export function blankCodeParam(event: H3Event): string {
+  return paramsWith(event, blankCodeParamsSchema).code
+}
+
+function noSuchBlank(code: string) {
+  return createError({ statusCode: 404, statusMessage: 'Not found', message: `No blank has the code ${code}.` })
+}
+
+export async function findBlankByCode(db: Database | Transaction, code: string): Promise<BlankRow> {
+  const [blank] = await db.select().from(blanks).where(eq(blanks.code, code)).limit(1)
+  if (!blank) throw noSuchBlank(code)
+  return blank
+}
+
+/** The blank, locked for the rest of the transaction so two changes to it queue rather than interleave. */
+export async function lockBlankByCode(tx: Transaction, code: string): Promise<BlankRow> {
+  const [blank] = await tx.select().from(blanks).where(eq(blanks.code, code)).for('update').limit(1)
+  if (!blank) throw noSuchBlank(code)
+  return blank
+}
+
+/** The open ticket (any stage but done) holding the blank, if one does. */
+export async function blankHolderOf(db: Database | Transaction, blankId: number): Promise<BlankHolder | null> {
+  const [holder] = await db.select({ ticketId: tickets.id, orderNumber: orders.number })
+    .from(tickets).innerJoin(orders, eq(orders.id, tickets.orderId))
+    .where(and(eq(tickets.blankId, blankId), ne(tickets.stage, 'done'))).limit(1)
+  return holder ?? null
+}
+
+/** 409 with the life-cycle table's sentence when `action` is not allowed for the blank now. */
+export async function assertBlankAction(db: Database | Transaction, blank: BlankRow, action: BlankAction): Promise<void> {
+  const holder = blankTransitions[action].unheldOnly ? await blankHolderOf(db, blank.id) : null
+  const refusal = blankActionRefusal(action, blank.state, holder)
+  if (refusal) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${blank.code}: ${refusal}`, data: { state: blank.state, action } })
+}
+
+export async function writeBlankLog(tx: Transaction, blankId: number, kind: BlankLogKind, data: object, byUserId: number | null, at?: Date) {
+  const [entry] = await tx.insert(blankLog).values({ blankId, kind, data: data as Record<string, unknown>, byUserId, ...(at ? { at } : {}) }).returning()
+  return entry!
+}
+
+type BlankChanges = Partial<Pick<BlankRow, 'state' | 'diameterIn' | 'surfacesUsed' | 'location' | 'notes'>>
+
+/** Applies the changes; a move to another state is logged with its reason. `at` back-dates both (the demo seed). */
+export async function changeBlank(tx: Transaction, blank: BlankRow, changes: BlankChanges, reason: string, byUserId: number | null, at?: Date): Promise<BlankRow> {
+  const [updated] = await tx.update(blanks).set({ ...changes, updatedAt: at ?? new Date() }).where(eq(blanks.id, blank.id)).returning()
+  if (changes.state && changes.state !== blank.state) {
+    await writeBlankLog(tx, blank.id, 'state', { from: blank.state, to: changes.state, reason } satisfies BlankStateLogData, byUserId, at)
+  }
+  return updated!
+}
+
+/** A reaming session as the log keeps it, with the engine's plan from the reading before. */
+export function blankReamingRecord(input: Omit<BlankReamingLogData, 'plan'>, settings: EngineSettings): BlankReamingLogData {
+  const planned = reamingPlan({ overhangIn: input.overhangBeforeIn, benchTemperatureF: input.roomTemperatureF }, settings)
+  const afterwards = reamingPlan({ overhangIn: input.overhangAfterIn }, settings)
+  const warnings = [...planned.warnings]
+  if (afterwards.status === 'past_fit') warnings.push(afterwards.warnings[0]!)
+  if (planned.status === 'plan' && input.reamings > planned.reamings) warnings.push(`${input.reamings} reamings were done where the plan asked for ${planned.reamings}.`)
+  return {
+    ...input,
+    plan: {
+      status: planned.status,
+      reamingsToFit: planned.reamings,
+      sets: planned.sets,
+      targetIn: planned.targetIn,
+      expectedAfterIn: input.overhangBeforeIn + input.reamings * planned.perReamingIn,
+      remainingAfter: afterwards.reamings,
+      warnings,
+    },
+  }
+}
+
+/**
+ * A shaving session as the log keeps it, with the engine's plan from the diameter before: the depth
+ * to clean up from the smallest diameter read, or one fresh surface's depth when none was read.
+ */
+export function blankShavingRecord(input: Omit<BlankShavingLogData, 'plan'>, settings: EngineSettings): BlankShavingLogData {
+  const { minimumDiameterIn, depthPerSurfaceIn } = settings.shaving
+  const plan = shavingPlan({
+    highDiameterIn: input.diameterBeforeIn,
+    lowDiameterIn: input.lowDiameterIn ?? undefined,
+    depthToCleanUpIn: input.lowDiameterIn === null ? depthPerSurfaceIn : undefined,
+    wheelDegrees: input.wheelDegrees,
+  }, settings)
+  const warnings = [...plan.warnings]
+  if (input.diameterAfterIn < minimumDiameterIn - 1e-9) {
+    warnings.push(`${formatInches(input.diameterAfterIn)} in is under the shop's minimum diameter of ${formatInches(minimumDiameterIn)} in: this blank should be scrapped.`)
+  }
+  return {
+    ...input,
+    plan: {
+      infeedIn: plan.infeedIn,
+      depthToCleanUpIn: plan.depthToCleanUpIn,
+      passesToCleanUp: plan.passes,
+      expectedAfterIn: input.diameterBeforeIn - 2 * input.passes * plan.infeedIn,
+      surfacesLeft: blankSurfacesLeft(input.diameterAfterIn, minimumDiameterIn, depthPerSurfaceIn).surfacesLeft ?? 0,
+      warnings,
+    },
+  }
+}
+
+const registerOrderings: Record<BlankRegisterSort, SQL[]> = {
+  code_asc: [asc(blanks.code)],
+  code_desc: [desc(blanks.code)],
+  updated_desc: [desc(blanks.updatedAt), desc(blanks.code)],
+  updated_asc: [asc(blanks.updatedAt), asc(blanks.code)],
+  diameter_desc: [sql`${blanks.diameterIn} desc nulls last`, asc(blanks.code)],
+  diameter_asc: [sql`${blanks.diameterIn} asc nulls last`, asc(blanks.code)],
+  surfaces_desc: [desc(blanks.surfacesUsed), asc(blanks.code)],
+}
+
+/**
+ * The register's table: filter by state, format and batch, search by code, sort, page. The latest
+ * test of each listed blank's current surface comes in a second query over the page's rows only.
+ */
+export async function listBlankRegister(db: Database, query: BlankRegisterQuery, settings: EngineSettings, limit?: number) {
+  const filters: SQL[] = []
+  if (query.state) filters.push(eq(blanks.state, query.state))
+  if (query.format) filters.push(eq(blanks.format, query.format))
+  if (query.batch) filters.push(eq(waxBatches.code, query.batch))
+  if (query.q) filters.push(ilike(blanks.code, `%${query.q.replace(/[%_\\]/g, ch => `\\${ch}`)}%`))
+  const where = filters.length ? and(...filters) : undefined
+  const pageSize = limit ?? query.pageSize
+
+  const rows = await db.select({
+    id: blanks.id,
+    code: blanks.code,
+    format: blanks.format,
+    state: blanks.state,
+    diameterIn: blanks.diameterIn,
+    surfacesUsed: blanks.surfacesUsed,
+    location: blanks.location,
+    updatedAt: blanks.updatedAt,
+    batchCode: waxBatches.code,
+  }).from(blanks).innerJoin(waxBatches, eq(waxBatches.id, blanks.batchId))
+    .where(where).orderBy(...registerOrderings[query.sort])
+    .limit(pageSize).offset(limit ? 0 : (query.page - 1) * pageSize)
+  const [total] = await db.select({ n: count() }).from(blanks).innerJoin(waxBatches, eq(waxBatches.id, blanks.batchId)).where(where)
+
+  const latest = new Map<number, { finalVerdict: 'pass' | 'fail', aWeightedDbfs: number }>()
+  if (rows.length > 0) {
+    const tests = await db.selectDistinctOn([surfaceTests.blankId], { blankId: surfaceTests.blankId, finalVerdict: surfaceTests.finalVerdict, aWeightedDbfs: surfaceTests.aWeightedDbfs })
+      .from(surfaceTests).innerJoin(blanks, eq(blanks.id, surfaceTests.blankId))
+      .where(and(inArray(surfaceTests.blankId, rows.map(row => row.id)), eq(surfaceTests.surface, sql`${blanks.surfacesUsed} + 1`)))
+      .orderBy(surfaceTests.blankId, desc(surfaceTests.testedAt), desc(surfaceTests.id))
+    for (const test of tests) latest.set(test.blankId, test)
+  }
+
+  const { minimumDiameterIn, depthPerSurfaceIn } = settings.shaving
+  return {
+    total: total?.n ?? 0,
+    page: query.page,
+    pageSize,
+    rows: rows.map(({ id, ...row }) => ({
+      ...row,
+      surfacesLeft: blankSurfacesLeft(row.diameterIn, minimumDiameterIn, depthPerSurfaceIn).surfacesLeft,
+      latestTest: latest.get(id) ?? null,
+    })),
+  }
+}

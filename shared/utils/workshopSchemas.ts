@@ -1,0 +1,245 @@
+import { z } from 'zod'
+import { numberInputField } from './benchSchemas'
+import { blankCodePattern, blankStates } from './blankLifecycle'
+import { cylinderFormats } from './cylinder'
+import { lengthField } from './length'
+
+// Inputs of the wax-batch, blank-register and surface-test routes, shared with their forms. Every
+// issue names its field, so a 400 can be shown beside the right input.
+
+const workshopText = (field: string, max: number, min = 0) => z.string({ error: `${field} must be text` })
+  .trim()
+  .min(min, min <= 1 ? `${field} is required` : `${field} needs at least ${min} characters`)
+  .max(max, `${field} is at most ${max} characters`)
+
+const wholeNumber = (field: string, min: number, max: number) => numberInputField(field, { integer: true, min, max })
+
+// ——— Wax batches ———
+
+export const waxBatchCodePattern = /^[A-Z0-9]+(?:[-/][A-Z0-9]+)*$/
+
+export const waxBatchFields = z.object({
+  code: z.string({ error: 'code must be text' }).trim().toUpperCase()
+    .min(2, 'code needs at least 2 characters').max(30, 'code is at most 30 characters')
+    .regex(waxBatchCodePattern, 'code may hold letters, digits and single hyphens or slashes between them (e.g. WB-26-03)'),
+  formula: workshopText('formula', 300, 3),
+  pourDate: z.iso.date({ error: 'pourDate must be a date like 2026-03-14' }),
+  /** Volumetric expansion per kelvin (e.g. 0.00081 for stearic acid); the heat-and-fit calculator uses a third of it. */
+  volumetricExpansionPerK: numberInputField('volumetricExpansionPerK', { positive: true, max: 0.01 }),
+  softeningPointC: numberInputField('softeningPointC', { min: 0, max: 200 }).nullable(),
+  notes: workshopText('notes', 2000),
+})
+
+export const waxBatchCreateSchema = waxBatchFields.extend({
+  softeningPointC: waxBatchFields.shape.softeningPointC.default(null),
+  notes: waxBatchFields.shape.notes.default(''),
+})
+export type WaxBatchCreateInput = z.input<typeof waxBatchCreateSchema>
+
+export const waxBatchPatchSchema = waxBatchFields.partial()
+  .refine(patch => Object.values(patch).some(value => value !== undefined), { message: 'change at least one field', path: ['body'] })
+export type WaxBatchPatchInput = z.input<typeof waxBatchPatchSchema>
+
+export const waxBatchIdParamsSchema = z.object({ id: wholeNumber('id', 1, 2_147_483_647) })
+
+// ——— Blank register ———
+
+/** The most blanks one request creates (a casting session's worth). */
+export const BLANKS_PER_CREATE_MAX = 200
+
+export const blankCreateSchema = z.object({
+  batchId: wholeNumber('batchId', 1, 2_147_483_647),
+  format: z.enum(cylinderFormats, { error: 'format must be two_minute or four_minute' }),
+  count: wholeNumber('count', 1, BLANKS_PER_CREATE_MAX).default(1),
+  diameterIn: lengthField('diameterIn', { positive: true }).optional(),
+  location: workshopText('location', 120).default(''),
+})
+export type BlankCreateInput = z.input<typeof blankCreateSchema>
+
+export const blankRegisterSorts = ['code_asc', 'code_desc', 'updated_desc', 'updated_asc', 'diameter_desc', 'diameter_asc', 'surfaces_desc'] as const
+export type BlankRegisterSort = typeof blankRegisterSorts[number]
+
+export const blankRegisterSortLabels: Record<BlankRegisterSort, string> = {
+  code_asc: 'Code, first to last',
+  code_desc: 'Code, last to first',
+  updated_desc: 'Changed most recently',
+  updated_asc: 'Changed longest ago',
+  diameter_desc: 'Largest diameter',
+  diameter_asc: 'Smallest diameter',
+  surfaces_desc: 'Most surfaces used',
+}
+
+export const blankRegisterQuerySchema = z.object({
+  state: z.enum(blankStates, { error: `state must be one of ${blankStates.join(', ')}` }).optional(),
+  format: z.enum(cylinderFormats, { error: 'format must be two_minute or four_minute' }).optional(),
+  batch: z.string({ error: 'batch must be a batch code' }).trim().toUpperCase().max(30, 'batch is too long').optional(),
+  q: z.string({ error: 'q must be text' }).trim().max(40, 'q is too long').optional(),
+  sort: z.enum(blankRegisterSorts, { error: `sort must be one of ${blankRegisterSorts.join(', ')}` }).default('code_desc'),
+  page: wholeNumber('page', 1, 100_000).default(1),
+  pageSize: wholeNumber('pageSize', 1, 200).default(25),
+})
+export type BlankRegisterQuery = z.output<typeof blankRegisterQuerySchema>
+
+export const blankCodeParamsSchema = z.object({
+  code: z.string({ error: 'code must be a blank code' }).trim().toUpperCase().regex(blankCodePattern, 'code must look like GW-26-0412'),
+})
+
+export const blankPatchSchema = z.object({
+  location: workshopText('location', 120).optional(),
+  notes: workshopText('notes', 2000).optional(),
+  diameterIn: lengthField('diameterIn', { positive: true }).nullable().optional(),
+}).refine(patch => Object.values(patch).some(value => value !== undefined), { message: 'change at least one of location, notes or diameterIn', path: ['body'] })
+export type BlankPatchInput = z.input<typeof blankPatchSchema>
+
+/** One reaming session: the overhang read before and after, the reamings done, the room's temperature. */
+export const blankReamingSchema = z.object({
+  overhangBeforeIn: lengthField('overhangBeforeIn', { allowNegative: true }),
+  overhangAfterIn: lengthField('overhangAfterIn', { allowNegative: true }),
+  reamings: wholeNumber('reamings', 1, 40),
+  roomTemperatureF: numberInputField('roomTemperatureF', { min: 32, max: 120 }),
+  /** A reaming after shaving has begun: the maker accepts that the current surface is spent. */
+  refit: z.boolean({ error: 'refit must be true or false' }).default(false),
+  notes: workshopText('notes', 1000).default(''),
+}).superRefine((session, ctx) => {
+  // Each reaming seats the blank further on, so the overhang reading can only grow.
+  if (session.overhangAfterIn < session.overhangBeforeIn - 1e-9) {
+    ctx.addIssue({ code: 'custom', path: ['overhangAfterIn'], message: 'overhangAfterIn: the overhang grows as the bore opens; it cannot be less after reaming than before' })
+  }
+})
+export type BlankReamingInput = z.input<typeof blankReamingSchema>
+
+/** One shaving session on the current surface: the wheel setting, the passes, the diameter after. */
+export const blankShavingSchema = z.object({
+  /** Largest diameter read before shaving; the blank's recorded diameter when left out. */
+  diameterBeforeIn: lengthField('diameterBeforeIn', { positive: true }).optional(),
+  /** Smallest diameter read around the blank, for the depth the plan must clean up. */
+  lowDiameterIn: lengthField('lowDiameterIn', { positive: true }).optional(),
+  wheelDegrees: numberInputField('wheelDegrees', { positive: true, max: 360 }).default(45),
+  passes: wholeNumber('passes', 1, 50).default(1),
+  diameterAfterIn: lengthField('diameterAfterIn', { positive: true }),
+  notes: workshopText('notes', 1000).default(''),
+})
+export type BlankShavingInput = z.input<typeof blankShavingSchema>
+
+/** A new surface on a blank whose surface is spent; the measurements are optional. */
+export const blankReshaveSchema = z.object({
+  reason: workshopText('reason', 500).default(''),
+  wheelDegrees: numberInputField('wheelDegrees', { positive: true, max: 360 }).optional(),
+  passes: wholeNumber('passes', 1, 50).optional(),
+  diameterAfterIn: lengthField('diameterAfterIn', { positive: true }).optional(),
+})
+export type BlankReshaveInput = z.input<typeof blankReshaveSchema>
+
+export const blankScrapSchema = z.object({
+  reason: workshopText('reason', 500, 3),
+})
+
+// ——— Surface tests ———
+
+export const surfaceTestVerdicts = ['pass', 'fail'] as const
+
+const overruleReasonField = workshopText('overruleReason', 1000)
+
+/** The text fields sent beside the WAV (multipart form fields arrive as text). */
+export const surfaceTestUploadFieldsSchema = z.object({
+  rpm: numberInputField('rpm', { integer: true, min: 30, max: 300 }).default(160),
+  listeningNotes: workshopText('listeningNotes', 4000).default(''),
+  finalVerdict: z.enum(surfaceTestVerdicts, { error: 'finalVerdict must be pass or fail' }).optional(),
+  overruleReason: overruleReasonField.optional(),
+})
+
+export const surfaceAnalyseFieldsSchema = z.object({
+  rpm: numberInputField('rpm', { min: 30, max: 300 }).default(160),
+})
+
+export const surfaceTestPatchSchema = z.object({
+  listeningNotes: workshopText('listeningNotes', 4000).optional(),
+  finalVerdict: z.enum(surfaceTestVerdicts, { error: 'finalVerdict must be pass or fail' }).optional(),
+  overruleReason: overruleReasonField.nullable().optional(),
+}).refine(patch => Object.values(patch).some(value => value !== undefined), { message: 'change listeningNotes, finalVerdict or overruleReason', path: ['body'] })
+export type SurfaceTestPatchInput = z.input<typeof surfaceTestPatchSchema>
+
+export const surfaceTestParamsSchema = blankCodeParamsSchema.extend({ id: wholeNumber('id', 1, 2_147_483_647) })
+
+export const SURFACE_OVERRULE_REASON_REQUIRED = 'say why the computed verdict is overruled (what you heard); the reason is kept with the test'
+
+// ——— What the blank log keeps (blank_log.data by kind) ———
+
+export interface BlankReamingLogData {
+  overhangBeforeIn: number
+  overhangAfterIn: number
+  reamings: number
+  roomTemperatureF: number
+  refit: boolean
+  notes: string
+  /** The engine's plan from the reading before, as it stood at the time. */
+  plan: { status: string, reamingsToFit: number, sets: number, targetIn: number, expectedAfterIn: number, remainingAfter: number, warnings: string[] }
+}
+
+export interface BlankShavingLogData {
+  surface: number
+  diameterBeforeIn: number
+  lowDiameterIn: number | null
+  wheelDegrees: number
+  passes: number
+  diameterAfterIn: number
+  notes: string
+  plan: { infeedIn: number, depthToCleanUpIn: number, passesToCleanUp: number, expectedAfterIn: number, surfacesLeft: number, warnings: string[] }
+}
+
+export interface BlankReshaveLogData {
+  fromState: string
+  surfaceBefore: number
+  surfaceNow: number
+  diameterBeforeIn: number | null
+  diameterAfterIn: number | null
+  wheelDegrees: number | null
+  passes: number | null
+  reason: string
+}
+
+export interface BlankStateLogData {
+  from: string | null
+  to: string
+  reason: string
+}
+
+// ——— What the pages show (the routes' answers, as they arrive in the browser) ———
+
+/** The figures of a surface analysis that the pages show (the analyse route's answer, a stored test's `figures`). */
+export interface SurfaceFiguresView {
+  durationS: number
+  sampleRate: number
+  channels: number
+  rpm: number
+  peakDbfs: number
+  rmsDbfs: number
+  aWeightedDbfs: number
+  crestDb: number
+  rotaryDb: number | null
+  rotaryHz: number | null
+  rotaryDetected: boolean
+  clickCount: number
+  clicksPerMinute: number
+  verdict: 'pass' | 'marginal' | 'fail'
+  reasons: string[]
+  spectrum: { hz: number, db: number }[]
+  envelope: number[]
+  envelopeSeconds: number
+}
+
+/** A stored surface test as the blank's page shows it. */
+export interface SurfaceTestView {
+  id: number
+  surface: number
+  rpm: number
+  fileUrl: string | null
+  computedVerdict: 'pass' | 'marginal' | 'fail'
+  finalVerdict: 'pass' | 'fail'
+  overruled: boolean
+  overruleReason: string | null
+  listeningNotes: string
+  testedBy: string | null
+  testedAt: string
+  figures: SurfaceFiguresView
+}

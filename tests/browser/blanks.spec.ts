@@ -1,0 +1,141 @@
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import AxeBuilder from '@axe-core/playwright'
+import { expect, test, type Page } from '@playwright/test'
+import { makeSurfaceWav } from '../../server/utils/audio/synth'
+import { demoAccounts } from '../../shared/utils/demoAccounts'
+
+const shots = 'tests/browser/report'
+
+async function signInAsMaker(page: Page) {
+  const maker = demoAccounts.find(a => a.role === 'maker')!
+  await page.goto('/signin')
+  await page.getByLabel('E-mail').fill(maker.email)
+  await page.getByLabel('Password').fill(maker.password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
+}
+
+async function expectNoSeriousAxeViolations(page: Page) {
+  const axe = await new AxeBuilder({ page }).analyze()
+  expect(axe.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')).toEqual([])
+}
+
+/** A batch and blanks through the API, as the maker's own browser session (its cookie, this site's Origin). */
+async function prepareBlanks(page: Page, baseURL: string) {
+  const post = async (path: string, data: object) => {
+    const answer = await page.request.post(path, { data, headers: { origin: baseURL } })
+    expect(answer.status(), `${path}: ${await answer.text()}`).toBe(201)
+    return answer.json()
+  }
+  const batch = await post('/api/workshop/batches', { code: `BT-${Date.now().toString(36).toUpperCase()}`, formula: 'stearic acid 70 / paraffin 20 / carnauba 10', pourDate: '2026-11-02', volumetricExpansionPerK: 0.00076 })
+  const { codes } = await post('/api/workshop/blanks', { batchId: batch.id, format: 'four_minute', count: 2, diameterIn: '2.206', location: 'Listening bench' })
+  const [shaved, cast] = codes as [string, string]
+  await post(`/api/workshop/blanks/${shaved}/reaming`, { overhangBeforeIn: '3/16', overhangAfterIn: '7/16', reamings: 4, roomTemperatureF: 74 })
+  await post(`/api/workshop/blanks/${shaved}/shaving`, { lowDiameterIn: '2.200', wheelDegrees: 45, passes: 1, diameterAfterIn: '2.200' })
+  return { shaved, cast, batchCode: batch.code as string }
+}
+
+let wavDir: string
+let wavPath: string
+
+test.beforeAll(() => {
+  wavDir = mkdtempSync(join(tmpdir(), 'gw-browser-wav-'))
+  wavPath = join(wavDir, 'play-through.wav')
+  // A quiet synthetic surface with known answers: −58 dBFS RMS (AES17), a faint swell, no clicks.
+  writeFileSync(wavPath, makeSurfaceWav({ seconds: 8, sampleRate: 22_050, levelDbfs: -58, swellDepth: 0.02, seed: 77 }))
+})
+
+test.afterAll(() => rmSync(wavDir, { recursive: true, force: true }))
+
+test('the maker filters the register, opens a shaved blank, uploads its play-through and reads the figures', async ({ page, baseURL }) => {
+  await page.setViewportSize({ width: 1280, height: 900 })
+  await signInAsMaker(page)
+  const { shaved, cast, batchCode } = await prepareBlanks(page, baseURL!)
+
+  await page.goto('/workshop')
+  await page.getByRole('link', { name: /Blank register/ }).click()
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Blank register')
+
+  await page.getByLabel('State').selectOption('shaved')
+  await expect(page).toHaveURL(/state=shaved/)
+  const table = page.getByRole('table', { name: 'Blanks in the register' })
+  await expect(table.getByRole('link', { name: shaved })).toBeVisible()
+  await expect(table.getByRole('link', { name: cast })).toHaveCount(0)
+  for (const badge of await table.locator('tbody tr td:nth-child(2)').allTextContents()) expect(badge.trim()).toBe('Shaved')
+  await page.screenshot({ path: `${shots}/blanks-register-desktop.png`, fullPage: true })
+  await expectNoSeriousAxeViolations(page)
+
+  await table.getByRole('link', { name: shaved }).click()
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText(`Blank ${shaved}`)
+  // The shaving log keeps the plan beside the pass: (2.206 − 2.200) ÷ 2 = 0.003 in, one 45° pass (common practice, no source).
+  const shavingLog = page.getByRole('region', { name: 'Shaving log' })
+  await expect(shavingLog).toContainText('1 pass to clean up 0.0030 in')
+  await expect(page.getByRole('region', { name: 'Reaming log' })).toContainText('4 reamings to 7/16 in')
+
+  const testing = page.getByRole('region', { name: 'Test surface 1' })
+  await testing.getByLabel('Play-through recording (WAV)').setInputFiles(wavPath)
+  await testing.getByLabel('Listening notes').fill('Even hiss, nothing per turn.')
+  await testing.getByRole('button', { name: 'Upload and test this surface' }).click()
+  await expect(page.getByRole('status').filter({ hasText: 'Surface test stored.' })).toBeVisible()
+
+  const card = page.getByRole('article', { name: /Surface 1 · test #/ })
+  await expect(card).toContainText('Final verdict')
+  await expect(card).toContainText('Even hiss, nothing per turn.')
+  // The file was made at −58 dBFS RMS; A-weighting white noise at 22.05 kHz reads a little lower.
+  await expect(card.locator('dl > div').filter({ hasText: 'RMS level' }).locator('dd').first()).toHaveText('−58.0 dBFS')
+  await expect(card.locator('dl > div').filter({ hasText: 'A-weighted level' }).locator('dd').first()).toContainText(/−58\.\d dBFS/)
+  await expect(card.locator('dl > div').filter({ hasText: 'Clicks per minute' }).locator('dd').first()).toHaveText('0.0')
+  await expect(card.getByRole('img', { name: 'Level over time' })).toBeVisible()
+  await expect(card.getByRole('img', { name: 'Spectrum (1/3-octave bands)' })).toBeVisible()
+  await expect(page.getByRole('region', { name: 'The blank now' })).toContainText('Tested: pass')
+  await page.screenshot({ path: `${shots}/blanks-blank-desktop.png`, fullPage: true })
+  await expectNoSeriousAxeViolations(page)
+
+  await page.setViewportSize({ width: 390, height: 844 })
+  await page.reload()
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText(`Blank ${shaved}`)
+  expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
+  await page.screenshot({ path: `${shots}/blanks-blank-phone.png`, fullPage: true })
+  // Nothing of this batch is shaved any more: the filter says so instead of showing an empty table.
+  await page.goto(`/workshop/blanks?state=shaved&batch=${batchCode}`)
+  await expect(page.getByText('No blank matches these filters.')).toBeVisible()
+  await page.goto('/workshop/blanks')
+  await expect(page.getByRole('table', { name: 'Blanks in the register' }).getByRole('link', { name: shaved })).toBeVisible()
+  expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
+  await page.screenshot({ path: `${shots}/blanks-register-phone.png`, fullPage: true })
+  await expectNoSeriousAxeViolations(page)
+})
+
+test('the analyse page measures a chosen file, plots it and plays it from the browser\'s copy', async ({ page }) => {
+  await page.setViewportSize({ width: 1280, height: 900 })
+  await signInAsMaker(page)
+  await page.goto('/workshop/analyse')
+  await page.getByLabel('Play-through recording (WAV)').setInputFiles(wavPath)
+  await expect(page.locator('audio')).toHaveAttribute('src', /^blob:/)
+  await page.getByRole('button', { name: 'Upload and analyse' }).click()
+  const analysis = page.getByTestId('analysis')
+  await expect(analysis.locator('dl > div').filter({ hasText: 'RMS level' }).locator('dd').first()).toHaveText('−58.0 dBFS')
+  await expect(analysis).toContainText('within the shop\'s limits')
+  await expect(page.getByRole('progressbar')).toHaveAttribute('aria-valuenow', '100')
+  await page.screenshot({ path: `${shots}/blanks-analyse-desktop.png`, fullPage: true })
+  await expectNoSeriousAxeViolations(page)
+
+  await page.setViewportSize({ width: 390, height: 844 })
+  expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
+  await page.screenshot({ path: `${shots}/blanks-analyse-phone.png`, fullPage: true })
+})
+
+test('a label prints the code as a barcode with batch and format', async ({ page, baseURL }) => {
+  await signInAsMaker(page)
+  const { cast } = await prepareBlanks(page, baseURL!)
+  await page.goto(`/workshop/blanks/${cast}/label`)
+  const label = page.getByRole('article', { name: 'The label' })
+  await expect(label).toContainText(cast)
+  await expect(label).toContainText('4-minute')
+  await expect(label.getByRole('img', { name: `Code 128 barcode of ${cast}` })).toBeVisible()
+  await page.emulateMedia({ media: 'print' })
+  await expect(page.getByRole('button', { name: 'Print the label' })).toBeHidden()
+  await page.screenshot({ path: `${shots}/blanks-label-print.png` })
+})
