@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm'
-import { settings, users } from '../db/schema'
+import { blanks, settings, users } from '../db/schema'
 import type { Database } from './db'
 
 /**
@@ -18,11 +18,17 @@ export async function seedDemo(db: Database) {
     }
   })
   await seedDemoCatalogue(db)
+  await seedDemoWorkshop(db)
 }
 
 export async function seedIfEmpty(db: Database) {
   const [row] = await db.select({ count: sql<number>`count(*)::int` }).from(users)
-  if ((row?.count ?? 0) === 0) await seedDemo(db)
-  // A database from before the catalogue existed gets the demo catalogue once, while it has no products.
-  else if (await productCount(db) === 0) await seedDemoCatalogue(db)
+  if ((row?.count ?? 0) === 0) {
+    await seedDemo(db)
+    return
+  }
+  // A database from before an area existed gets that area's demo once, while the area is empty.
+  if (await productCount(db) === 0) await seedDemoCatalogue(db)
+  const [blank] = await db.select({ id: blanks.id }).from(blanks).limit(1)
+  if (!blank) await seedDemoWorkshop(db)
 }

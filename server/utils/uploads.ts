@@ -94,7 +94,7 @@ function tooLarge(purpose: UploadPurpose) {
   return createError({
     statusCode: 413,
     statusMessage: 'Payload Too Large',
-    message: `file: the ${purpose === 'photo' ? 'photo' : 'audio sample'} is larger than ${limit.label}; nothing was stored.`,
+    message: `file: the ${({ photo: 'photo', audio: 'audio sample', surface_test: 'recording' } as Record<string, string>)[purpose] ?? 'file'} is larger than ${limit.label}; nothing was stored.`,
     data: { fields: { file: `larger than ${limit.label}` } },
   })
 }
