@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm'
-import { blanks, settings, users } from '../db/schema'
+import { blanks, recorders, settings, users } from '../db/schema'
 import type { Database } from './db'
 
 /**
@@ -19,6 +19,7 @@ export async function seedDemo(db: Database) {
   })
   await seedDemoCatalogue(db)
   await seedDemoWorkshop(db)
+  await seedDemoTickets(db)
 }
 
 export async function seedIfEmpty(db: Database) {
@@ -31,4 +32,6 @@ export async function seedIfEmpty(db: Database) {
   if (await productCount(db) === 0) await seedDemoCatalogue(db)
   const [blank] = await db.select({ id: blanks.id }).from(blanks).limit(1)
   if (!blank) await seedDemoWorkshop(db)
+  const [recorder] = await db.select({ id: recorders.id }).from(recorders).limit(1)
+  if (!recorder) await seedDemoTickets(db)
 }

@@ -1,0 +1,25 @@
+import { eq } from 'drizzle-orm'
+import { z } from 'zod'
+import { recorders } from '../../../db/schema'
+
+const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int().positive() })
+
+export default defineEventHandler(async (event) => {
+  await requireRole(event, 'maker')
+  const { id } = paramsWith(event, paramsSchema)
+  const input = await readBodyWith(event, recorderPatchSchema)
+  const db = await useDB()
+  try {
+    const [updated] = Object.keys(input).length
+      ? await db.update(recorders).set(input).where(eq(recorders.id, id)).returning()
+      : await db.select().from(recorders).where(eq(recorders.id, id))
+    if (!updated) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such recorder.' })
+    return updated
+  }
+  catch (error) {
+    if (isRecorderNameTaken(error)) {
+      throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `name: another recorder is already called “${input.name}”.`, data: { fields: { name: 'already used by another recorder' } } })
+    }
+    throw error
+  }
+})

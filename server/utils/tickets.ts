@@ -1,0 +1,333 @@
+import { and, asc, desc, eq, ne, sql } from 'drizzle-orm'
+import { blankLog, blanks, orderItems, orders, recorders, surfaceTests, testCuts, ticketEvents, tickets, users, waxBatches } from '../db/schema'
+import type { Database, Transaction } from './db'
+
+type Db = Database | Transaction
+export type Ticket = typeof tickets.$inferSelect
+type Blank = typeof blanks.$inferSelect
+type TicketStageValue = Ticket['stage']
+
+const conflict = (message: string) => createError({ statusCode: 409, statusMessage: 'Conflict', message })
+const ticketNotFound = () => createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such ticket.' })
+
+/** A date `days` after `from`, as the calendar date (UTC) a ticket is due. */
+export function ticketDueDate(from: Date, days = ticketLeadTimeDays): string {
+  const due = new Date(from.getTime() + days * 86_400_000)
+  return due.toISOString().slice(0, 10)
+}
+
+const wishFields: [string, string][] = [
+  ['wishes', ''], ['occasion', 'Occasion'], ['wishedDate', 'Wished for by'], ['recipient', 'For'],
+  ['dedication', 'Dedication'], ['script', 'Script'], ['note', 'Note'], ['rush', 'Rush'],
+]
+
+/** What the customer asked for, from an order item's details, as one readable text for the maker. */
+export function ticketWishesFromDetails(details: Record<string, unknown> | null | undefined): string {
+  if (!details) return ''
+  const parts: string[] = []
+  for (const [key, label] of wishFields) {
+    const value = details[key]
+    if (value === undefined || value === null || value === '' || value === false) continue
+    const text = value === true ? 'yes' : String(value).trim()
+    parts.push(label ? `${label}: ${text}` : text)
+  }
+  if (typeof details.voiceFileId === 'string') parts.push('The customer sent a voice recording.')
+  return parts.join('\n').slice(0, 4000)
+}
+
+export async function logTicketEvent(tx: Db, ticketId: number, from: TicketStageValue | null, to: TicketStageValue, note: string | null, actorUserId: number | null) {
+  await tx.insert(ticketEvents).values({ ticketId, fromStage: from, toStage: to, note: note || null, actorUserId })
+}
+
+async function logBlankState(tx: Db, blankId: number, from: Blank['state'], to: Blank['state'], ticketId: number, note: string, byUserId: number | null) {
+  await tx.insert(blankLog).values({ blankId, kind: 'state', data: { from, to, reason: note, ticketId }, byUserId })
+}
+
+/**
+ * Opens one ticket per cylinder to make (each unit of each made-to-order or custom item) for a
+ * paid order, and moves the order from paid to in production. Idempotent: the unique (item, unit)
+ * index skips tickets that exist. An unpaid order gets none.
+ */
+export async function createTicketsForOrder(tx: Db, orderId: number): Promise<number> {
+  const [order] = await tx.select().from(orders).where(eq(orders.id, orderId))
+  if (!order || !order.paidAt || !['paid', 'in_production'].includes(order.status)) return 0
+  const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
+  const toMake = items.filter(item => item.madeToOrder || item.kind === 'custom')
+  if (toMake.length === 0) return 0
+  const dueDate = ticketDueDate(order.paidAt)
+  const rows = toMake.flatMap(item => Array.from({ length: item.quantity }, (_, index) => ({
+    orderId, orderItemId: item.id, unit: index + 1, format: item.format, dueDate, wishes: ticketWishesFromDetails(item.details),
+  })))
+  const created = await tx.insert(tickets).values(rows).onConflictDoNothing({ target: [tickets.orderItemId, tickets.unit] }).returning({ id: tickets.id })
+  for (const ticket of created) await logTicketEvent(tx, ticket.id, null, 'queued', `Opened for paid order ${order.number}.`, null)
+  await moveOrder(tx, orderId, ['paid'], 'in_production', {}, `${rows.length} cylinder(s) to cut: production ticket(s) opened.`)
+  return created.length
+}
+
+/** Keeps the order's state in step with its tickets (all at dispatch → ready to pack; a proof out → proof pending). */
+export async function syncOrderWithTickets(tx: Db, orderId: number, actorUserId: number | null) {
+  const rows = await tx.select({ stage: tickets.stage }).from(tickets).where(eq(tickets.orderId, orderId))
+  const wanted = orderStateForTickets(rows.map(row => row.stage))
+  if (wanted === 'ready_to_pack') {
+    await moveOrder(tx, orderId, ['paid', 'in_production', 'proof_pending'], 'ready_to_pack', {}, 'Every cylinder of the order is cut and ready for dispatch.', actorUserId ?? undefined)
+  }
+  else if (wanted === 'proof_pending') {
+    await moveOrder(tx, orderId, ['paid', 'in_production'], 'proof_pending', {}, 'A proof is waiting for the customer.', actorUserId ?? undefined)
+  }
+  else if (wanted === 'in_production') {
+    await moveOrder(tx, orderId, ['paid', 'proof_pending', 'ready_to_pack'], 'in_production', {}, 'A cylinder of the order is being cut (again).', actorUserId ?? undefined)
+  }
+}
+
+/** The latest surface test of the blank's current surface, or null. */
+export async function latestCurrentSurfaceTest(db: Db, blank: Pick<Blank, 'id' | 'surfacesUsed'>) {
+  const [test] = await db.select().from(surfaceTests)
+    .where(and(eq(surfaceTests.blankId, blank.id), eq(surfaceTests.surface, blank.surfacesUsed + 1)))
+    .orderBy(desc(surfaceTests.testedAt), desc(surfaceTests.id)).limit(1)
+  return test ?? null
+}
+
+/** The open ticket (other than `exceptTicketId`) that holds a blank, with its order number. */
+export async function openTicketHoldingBlank(db: Db, blankId: number, exceptTicketId?: number) {
+  const [holder] = await db.select({ id: tickets.id, orderNumber: orders.number }).from(tickets)
+    .innerJoin(orders, eq(orders.id, tickets.orderId))
+    .where(and(eq(tickets.blankId, blankId), ne(tickets.stage, 'done'), exceptTicketId ? ne(tickets.id, exceptTicketId) : undefined))
+    .limit(1)
+  return holder ?? null
+}
+
+/**
+ * Blanks a ticket of `format` may take: state tested_pass, the latest test of the current surface
+ * passed, and no open ticket holds it. Quietest first. The same rule the assignment enforces.
+ */
+export async function eligibleBlanks(db: Db, format: Blank['format'], options: { code?: string, limit?: number } = {}) {
+  const latest = db.select({
+    finalVerdict: surfaceTests.finalVerdict,
+    aWeightedDbfs: surfaceTests.aWeightedDbfs,
+    rotaryDb: surfaceTests.rotaryDb,
+    clicksPerMinute: surfaceTests.clicksPerMinute,
+    testedAt: surfaceTests.testedAt,
+  }).from(surfaceTests)
+    .where(and(eq(surfaceTests.blankId, blanks.id), eq(surfaceTests.surface, sql`${blanks.surfacesUsed} + 1`)))
+    .orderBy(desc(surfaceTests.testedAt), desc(surfaceTests.id)).limit(1).as('latest_test')
+  const pattern = options.code ? `%${options.code.replace(/[%_\\]/g, ch => `\\${ch}`)}%` : undefined
+  return await db.select({
+    id: blanks.id,
+    code: blanks.code,
+    format: blanks.format,
+    diameterIn: blanks.diameterIn,
+    surface: sql<number>`${blanks.surfacesUsed} + 1`,
+    location: blanks.location,
+    batchCode: waxBatches.code,
+    aWeightedDbfs: latest.aWeightedDbfs,
+    rotaryDb: latest.rotaryDb,
+    clicksPerMinute: latest.clicksPerMinute,
+    testedAt: latest.testedAt,
+  }).from(blanks)
+    .innerJoinLateral(latest, sql`true`)
+    .innerJoin(waxBatches, eq(waxBatches.id, blanks.batchId))
+    .where(and(
+      eq(blanks.format, format),
+      eq(blanks.state, 'tested_pass'),
+      eq(latest.finalVerdict, 'pass'),
+      sql`not exists (select 1 from ${tickets} where ${tickets.blankId} = ${blanks.id} and ${tickets.stage} <> 'done')`,
+      pattern ? sql`${blanks.code} ilike ${pattern}` : undefined,
+    ))
+    .orderBy(asc(latest.aWeightedDbfs), asc(blanks.code))
+    .limit(options.limit ?? 50)
+}
+
+/** Why this blank may not go to this ticket (a sentence for a 409), or null. */
+async function blankRefusal(db: Db, ticket: Ticket, blank: Blank): Promise<string | null> {
+  if (blank.format !== ticket.format) {
+    return `Blank ${blank.code} is a ${blankFormatLabels[blank.format]} blank; ticket #${ticket.id} needs a ${blankFormatLabels[ticket.format]} one.`
+  }
+  const holder = await openTicketHoldingBlank(db, blank.id, ticket.id)
+  if (holder) return `Blank ${blank.code} is already held by ticket #${holder.id} (order ${holder.orderNumber}).`
+  if (ticket.blankId === blank.id) return `Ticket #${ticket.id} already holds blank ${blank.code}.`
+  if (blank.state !== 'tested_pass') {
+    return `Blank ${blank.code} is ${blankStateLabels[blank.state].toLowerCase()}: only a blank whose current surface passed its test can be assigned.`
+  }
+  const test = await latestCurrentSurfaceTest(db, blank)
+  if (!test) return `Blank ${blank.code} has no surface test on its current surface (${blank.surfacesUsed + 1}): test it first.`
+  if (test.finalVerdict !== 'pass') return `The latest test of blank ${blank.code}'s current surface (${blank.surfacesUsed + 1}) failed.`
+  return null
+}
+
+function isOpenBlankViolation(error: unknown): boolean {
+  const cause = (error as { cause?: { code?: string, constraint?: string } })?.cause ?? (error as { code?: string, constraint?: string })
+  return cause?.code === '23505' && cause.constraint === 'tickets_open_blank'
+}
+
+/**
+ * Ties a tested blank to a ticket (queued, or swapping the blank of one waiting for its cut). The
+ * checks give the reasons; the partial unique index `tickets_open_blank` is what makes two open
+ * tickets holding one blank impossible, however the requests interleave.
+ */
+export async function assignBlankToTicket(db: Database, ticketId: number, blankCode: string, actorUserId: number) {
+  let blankId: number | undefined
+  try {
+    return await db.transaction(async (tx) => {
+      const [ticket] = await tx.select().from(tickets).where(eq(tickets.id, ticketId)).for('update')
+      if (!ticket) throw ticketNotFound()
+      const [order] = await tx.select({ status: orders.status }).from(orders).where(eq(orders.id, ticket.orderId))
+      const kind = await ticketKindById(tx, ticket)
+      const problem = ticketMoveProblem({ id: ticket.id, stage: ticket.stage, kind }, 'blank_assigned', order!.status, 'assign')
+      if (problem) throw conflict(problem)
+      const [blank] = await tx.select().from(blanks).where(eq(blanks.code, blankCode))
+      if (!blank) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `blankCode: no blank in the register has the code ${blankCode}.`, data: { fields: { blankCode: 'no such blank' } } })
+      blankId = blank.id
+      const refusal = await blankRefusal(tx, ticket, blank)
+      if (refusal) throw conflict(refusal)
+
+      const previous = ticket.blankId ? (await tx.select().from(blanks).where(eq(blanks.id, ticket.blankId)))[0] : undefined
+      await tx.update(tickets).set({ blankId: blank.id, stage: 'blank_assigned', updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
+      const [reserved] = await tx.update(blanks).set({ state: 'reserved', updatedAt: new Date() })
+        .where(and(eq(blanks.id, blank.id), eq(blanks.state, 'tested_pass'))).returning({ id: blanks.id })
+      if (!reserved) throw conflict(`Blank ${blank.code} changed meanwhile; reload and choose again.`)
+      await logBlankState(tx, blank.id, 'tested_pass', 'reserved', ticket.id, `Reserved for ticket #${ticket.id}.`, actorUserId)
+      let note = `Blank ${blank.code} assigned.`
+      if (previous) {
+        // An uncut blank goes back on the shelf; one carrying a rejected cut stays cut, for the register to deal with.
+        if (previous.state === 'reserved') {
+          await tx.update(blanks).set({ state: 'tested_pass', updatedAt: new Date() }).where(eq(blanks.id, previous.id))
+          await logBlankState(tx, previous.id, 'reserved', 'tested_pass', ticket.id, `Released from ticket #${ticket.id}.`, actorUserId)
+        }
+        note = `Blank changed from ${previous.code} to ${blank.code}.`
+      }
+      await logTicketEvent(tx, ticket.id, ticket.stage, 'blank_assigned', note, actorUserId)
+      await syncOrderWithTickets(tx, ticket.orderId, actorUserId)
+      return { id: ticket.id, stage: 'blank_assigned' as const, blankCode: blank.code }
+    })
+  }
+  catch (error) {
+    if (blankId !== undefined && isOpenBlankViolation(error)) {
+      const holder = await openTicketHoldingBlank(db, blankId, ticketId)
+      throw conflict(`Blank ${blankCode} is already held by ticket #${holder?.id ?? '?'}${holder ? ` (order ${holder.orderNumber})` : ''}.`)
+    }
+    throw error
+  }
+}
+
+export async function ticketKindById(db: Db, ticket: Pick<Ticket, 'orderItemId'>): Promise<TicketKind> {
+  const [item] = await db.select({ kind: orderItems.kind }).from(orderItems).where(eq(orderItems.id, ticket.orderItemId))
+  return ticketKindOf(item?.kind ?? 'recorded')
+}
+
+/** Locks the ticket for a move and returns it with its kind and its order's state; 404 when missing. */
+export async function lockTicketForMove(tx: Transaction, ticketId: number) {
+  const [ticket] = await tx.select().from(tickets).where(eq(tickets.id, ticketId)).for('update')
+  if (!ticket) throw ticketNotFound()
+  const [order] = await tx.select({ id: orders.id, number: orders.number, status: orders.status }).from(orders).where(eq(orders.id, ticket.orderId))
+  return { ticket, order: order!, kind: await ticketKindById(tx, ticket) }
+}
+
+/** Checks that the ticket's blank can take the cut now: reserved for it, its current surface tested and passed. */
+export async function blankReadyForCut(tx: Transaction, ticket: Ticket): Promise<Blank> {
+  const [blank] = ticket.blankId ? await tx.select().from(blanks).where(eq(blanks.id, ticket.blankId)) : []
+  if (!blank) throw conflict(`Ticket #${ticket.id} has no blank yet: assign a tested blank before recording the cut.`)
+  if (blank.state === 'cut') throw conflict(`Blank ${blank.code} carries the rejected cut: change the blank (assign a fresh tested one) before cutting again.`)
+  if (blank.state !== 'reserved') throw conflict(`Blank ${blank.code} is ${blankStateLabels[blank.state].toLowerCase()}, not reserved for this ticket: assign a tested blank again.`)
+  const test = await latestCurrentSurfaceTest(tx, blank)
+  if (test?.finalVerdict !== 'pass') throw conflict(`Blank ${blank.code} has no passing test on its current surface: assign a tested blank.`)
+  return blank
+}
+
+/** Marks the cut: ticket → cut with recorder, date and test cut; blank reserved → cut. */
+export async function markTicketCut(tx: Transaction, ticket: Ticket, blank: Blank, cut: { recorderId: number, cutAt: Date, testCutId: number | null, recorderName: string, note?: string }, actorUserId: number) {
+  await tx.update(tickets).set({ stage: 'cut', recorderId: cut.recorderId, cutAt: cut.cutAt, cutTestId: cut.testCutId, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
+  await tx.update(blanks).set({ state: 'cut', updatedAt: new Date() }).where(eq(blanks.id, blank.id))
+  await logBlankState(tx, blank.id, 'reserved', 'cut', ticket.id, `Cut for ticket #${ticket.id} on ${cut.recorderName}.`, actorUserId)
+  await logTicketEvent(tx, ticket.id, ticket.stage, 'cut', `Cut on ${blank.code} with ${cut.recorderName}${cut.testCutId ? ', with a test recording' : ''}.${cut.note ? ` ${cut.note}` : ''}`, actorUserId)
+  await syncOrderWithTickets(tx, ticket.orderId, actorUserId)
+}
+
+/** A plain stage change or a recut, by the transition table; logged, and the order kept in step. */
+export async function changeTicketStage(db: Database, ticketId: number, change: TicketStageChange, actorUserId: number) {
+  return await db.transaction(async (tx) => {
+    const { ticket, order, kind } = await lockTicketForMove(tx, ticketId)
+    const problem = ticketMoveProblem({ id: ticket.id, stage: ticket.stage, kind }, change.to, order.status, 'stage')
+    if (problem) throw conflict(problem)
+    const recut = change.to === 'recut' || change.to === 'blank_assigned'
+    if (recut && !change.note) throw fieldError('note', 'say why the cylinder is cut again')
+    const to: TicketStageValue = change.to === 'recut' ? 'blank_assigned' : change.to
+    await tx.update(tickets).set({ stage: to, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
+    if (to === 'done' && ticket.blankId) {
+      const [shipped] = await tx.update(blanks).set({ state: 'shipped', updatedAt: new Date() })
+        .where(and(eq(blanks.id, ticket.blankId), eq(blanks.state, 'cut'))).returning({ id: blanks.id })
+      if (shipped) await logBlankState(tx, ticket.blankId, 'cut', 'shipped', ticket.id, `Shipped with order ${order.number}.`, actorUserId)
+    }
+    await logTicketEvent(tx, ticket.id, ticket.stage, to, recut ? `Recut: ${change.note}` : change.note, actorUserId)
+    await syncOrderWithTickets(tx, ticket.orderId, actorUserId)
+    return { id: ticket.id, stage: to }
+  })
+}
+
+/** Closes the to-dispatch tickets of a shipped order (for dispatch to call when the parcel leaves). */
+export async function closeTicketsOfShippedOrder(tx: Db, orderId: number, actorUserId: number | null) {
+  const open = await tx.select().from(tickets).where(and(eq(tickets.orderId, orderId), eq(tickets.stage, 'to_dispatch')))
+  for (const ticket of open) {
+    await tx.update(tickets).set({ stage: 'done', updatedAt: new Date() }).where(and(eq(tickets.id, ticket.id), eq(tickets.stage, 'to_dispatch')))
+    if (ticket.blankId) await tx.update(blanks).set({ state: 'shipped', updatedAt: new Date() }).where(and(eq(blanks.id, ticket.blankId), eq(blanks.state, 'cut')))
+    await logTicketEvent(tx, ticket.id, 'to_dispatch', 'done', 'The order has shipped.', actorUserId)
+  }
+  return open.length
+}
+
+/** The ticket log, oldest first, with who made each change. */
+export async function ticketHistory(db: Db, ticketId: number) {
+  return await db.select({ id: ticketEvents.id, from: ticketEvents.fromStage, to: ticketEvents.toStage, note: ticketEvents.note, at: ticketEvents.at, actor: users.name })
+    .from(ticketEvents).leftJoin(users, eq(users.id, ticketEvents.actorUserId))
+    .where(eq(ticketEvents.ticketId, ticketId)).orderBy(asc(ticketEvents.at), asc(ticketEvents.id))
+}
+
+/** Who may read an order's certificates: its owner, the maker, or a guest holding the order's signed link. */
+export function mayReadOrderCertificates(user: { id: number, role: string } | null, order: { number: string, userId: number | null }, token: string | undefined): boolean {
+  return user?.role === 'maker'
+    || (user !== null && order.userId === user.id)
+    || (token !== undefined && orderAccessTokenValid(order.number, token))
+}
+
+/** Stages at which a cylinder has been cut and its certificate can be issued. */
+export const certifiedTicketStages: TicketStageValue[] = ['cut', 'proof_sent', 'approved', 'to_dispatch', 'done']
+
+/** The test certificate of one made cylinder: the blank, its batch, the surface test it passed, the recorder and the dates. */
+export async function ticketCertificate(db: Db, ticketId: number) {
+  const [row] = await db.select({ ticket: tickets, order: orders, item: orderItems, blank: blanks, batch: waxBatches })
+    .from(tickets)
+    .innerJoin(orders, eq(orders.id, tickets.orderId))
+    .innerJoin(orderItems, eq(orderItems.id, tickets.orderItemId))
+    .innerJoin(blanks, eq(blanks.id, tickets.blankId))
+    .innerJoin(waxBatches, eq(waxBatches.id, blanks.batchId))
+    .where(eq(tickets.id, ticketId))
+  if (!row || !row.ticket.cutAt || !certifiedTicketStages.includes(row.ticket.stage)) return null
+  const { ticket, order, item, blank, batch } = row
+  const test = await latestCurrentSurfaceTest(db, blank)
+  const [recorder] = ticket.recorderId ? await db.select().from(recorders).where(eq(recorders.id, ticket.recorderId)) : []
+  const [testCut] = ticket.cutTestId ? await db.select().from(testCuts).where(eq(testCuts.id, ticket.cutTestId)) : []
+  const [ready] = await db.select({ at: ticketEvents.at }).from(ticketEvents)
+    .where(and(eq(ticketEvents.ticketId, ticket.id), eq(ticketEvents.toStage, 'to_dispatch'))).orderBy(desc(ticketEvents.at)).limit(1)
+  return {
+    order: { number: order.number, userId: order.userId },
+    certificate: {
+      ticketId: ticket.id,
+      orderNumber: order.number,
+      title: item.title,
+      format: item.format,
+      unit: ticket.unit,
+      quantity: item.quantity,
+      blank: { code: blank.code, diameterIn: blank.diameterIn, surface: blank.surfacesUsed + 1 },
+      batch: { code: batch.code, formula: batch.formula, pourDate: batch.pourDate, softeningPointC: batch.softeningPointC },
+      surfaceTest: test && {
+        testedAt: test.testedAt, rpm: test.rpm, aWeightedDbfs: test.aWeightedDbfs, rotaryDb: test.rotaryDb, clicksPerMinute: test.clicksPerMinute,
+        computedVerdict: test.computedVerdict, finalVerdict: test.finalVerdict, overruleReason: test.overruleReason,
+      },
+      recorder: recorder ? { name: recorder.name, stylus: recorder.stylus, horn: recorder.horn } : null,
+      testCut: testCut ? { aWeightedDbfs: testCut.aWeightedDbfs, clicksPerMinute: testCut.clicksPerMinute, verdict: testCut.verdict } : null,
+      cutAt: ticket.cutAt,
+      readyAt: ready?.at ?? null,
+      stage: ticket.stage,
+      thresholds: await testCutThresholds(db),
+    },
+  }
+}
