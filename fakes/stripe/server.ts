@@ -587,7 +587,7 @@ function checkAuth(header: string | undefined): ApiError | null {
   if (!header) {
     return new ApiError(401, {
       type: 'invalid_request_error',
-      message: 'You did not provide an API key. You need to provide your API key in the Authorization header, using Bearer auth (e.g. \'Authorization: Bearer YOUR_SECRET_KEY\'). See https://stripe.com/docs/api#authentication for details, or we can help at https://support.stripe.com/.',
+      message: 'You did not provide an API key. You need to provide your API key in the Authorization header, using Bearer auth (e.g. \'Authorization: Bearer YOUR_SECRET_KEY\'). (This is the local payment stand-in: any sk_test_… key works.)',
     })
   }
   let key = ''
@@ -598,7 +598,7 @@ function checkAuth(header: string | undefined): ApiError | null {
   if (!key) {
     return new ApiError(401, {
       type: 'invalid_request_error',
-      message: 'You did not provide an API key. You need to provide your API key in the Authorization header, using Bearer auth (e.g. \'Authorization: Bearer YOUR_SECRET_KEY\'). See https://stripe.com/docs/api#authentication for details, or we can help at https://support.stripe.com/.',
+      message: 'You did not provide an API key. You need to provide your API key in the Authorization header, using Bearer auth (e.g. \'Authorization: Bearer YOUR_SECRET_KEY\'). (This is the local payment stand-in: any sk_test_… key works.)',
     })
   }
   const shown = key.length > 8 ? `${key.slice(0, 8)}${'*'.repeat(Math.max(0, key.length - 12))}${key.slice(-4)}` : key

@@ -587,7 +587,7 @@ export function createState(options: StateOptions) {
       type: 'card_error',
       code: 'card_declined',
       decline_code: 'generic_decline',
-      doc_url: 'https://stripe.com/docs/error-codes/card-declined',
+      doc_url: null,
       message: 'Your card was declined.',
       charge: charge.id,
       payment_method: { id: paymentMethod, object: 'payment_method', type: 'card', card: { brand: 'visa', last4: '0002' } },

@@ -23,7 +23,7 @@ export interface StripeErrorBody {
   message: string
   param?: string
   code?: string
-  doc_url?: string
+  doc_url?: string | null
   request_log_url?: string
 }
 
@@ -39,7 +39,8 @@ export class ApiError extends Error {
   }
 }
 
-const docUrl = (code: string) => `https://stripe.com/docs/error-codes/${code.replace(/_/g, '-')}`
+// The real service links each error code to its documentation; the stand-in has none to link to.
+const docUrl = (_code: string): null => null
 
 export function invalid(message: string, param?: string, code?: string, validation = true) {
   return new ApiError(400, {
@@ -64,7 +65,7 @@ export const notFound = (kind: string, id: string, param = 'id') => new ApiError
 
 export const unrecognisedUrl = (method: string, path: string) => new ApiError(404, {
   type: 'invalid_request_error',
-  message: `Unrecognized request URL (${method}: ${path}). Please see https://stripe.com/docs or we can help at https://support.stripe.com/.`,
+  message: `Unrecognized request URL (${method}: ${path}). The local payment stand-in speaks only the subset the shop uses.`,
 })
 
 /** Names a nested parameter the way the API does: `line_items[0][price_data][currency]`. */

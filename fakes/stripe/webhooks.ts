@@ -108,7 +108,7 @@ export function createDelivery(options: DeliveryOptions) {
           method: 'POST',
           headers: {
             'content-type': 'application/json; charset=utf-8',
-            'user-agent': 'Stripe/1.0 (+https://stripe.com/docs/webhooks)',
+            'user-agent': 'Stripe/1.0 (local payment stand-in)',
             'accept': '*/*; q=0.5, application/xml',
             'cache-control': 'no-cache',
             'stripe-signature': header,
