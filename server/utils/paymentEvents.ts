@@ -142,6 +142,7 @@ async function applyRefunds(tx: Transaction, order: typeof orders.$inferSelect, 
     .where(eq(orders.id, order.id)).returning({ refundedMinor: orders.refundedMinor, totalMinor: orders.totalMinor })
   if (updated && updated.refundedMinor >= updated.totalMinor) {
     await moveOrder(tx, order.id, ['paid', 'in_production', 'proof_pending', 'ready_to_pack', 'packed', 'shipped', 'delivered', 'cancelled'], 'refunded', {}, 'Refunded in full.')
+    await closeTicketsOfRefundedOrder(tx, order.id)
     return 'refunded in full'
   }
   return 'refunded in part'

@@ -274,6 +274,21 @@ export async function closeTicketsOfShippedOrder(tx: Db, orderId: number, actorU
   return open.length
 }
 
+/**
+ * A fully refunded order makes nothing more: its open tickets are closed, and a blank that was only
+ * reserved goes back to the tested blanks a new ticket can take. A blank already cut stays cut (the
+ * recording exists, and the register shows it).
+ */
+export async function closeTicketsOfRefundedOrder(tx: Db, orderId: number) {
+  const open = await tx.select().from(tickets).where(and(eq(tickets.orderId, orderId), ne(tickets.stage, 'done')))
+  for (const ticket of open) {
+    await tx.update(tickets).set({ stage: 'done', updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
+    if (ticket.blankId) await tx.update(blanks).set({ state: 'tested_pass', updatedAt: new Date() }).where(and(eq(blanks.id, ticket.blankId), eq(blanks.state, 'reserved')))
+    await logTicketEvent(tx, ticket.id, ticket.stage, 'done', 'The order was refunded in full: nothing more to make.', null)
+  }
+  return open.length
+}
+
 /** The ticket log, oldest first, with who made each change. */
 export async function ticketHistory(db: Db, ticketId: number) {
   return await db.select({ id: ticketEvents.id, from: ticketEvents.fromStage, to: ticketEvents.toStage, note: ticketEvents.note, at: ticketEvents.at, actor: users.name })

@@ -219,6 +219,19 @@ describe('orders: who may see and change them', () => {
     expect(mails.length).toBeLessThanOrEqual(2)
   })
 
+  it('a full refund closes the order\'s open production tickets', async () => {
+    const product = await newProduct({ kind: 'recorded', madeToOrder: true, stock: 5, performer: 'The Test Quartet', runningTimeS: 100, format: 'two_minute' })
+    const created = await checkout(new Client(), [{ slug: product.slug, qty: 2 }])
+    const { orderNumber, url, accessToken } = created.body
+    await fake(`/_fake/sessions/${sessionIdOf(url)}/complete?wait=true`, {})
+    await waitFor(async () => (await orderAs(orderNumber, accessToken)).status === 'in_production', 10_000, 'production to start')
+    const board = async () => (await maker.get(`/api/workshop/tickets?q=${orderNumber}`)).body.tickets as { stage: string }[]
+    expect((await board()).map(t => t.stage)).toEqual(['queued', 'queued'])
+    expect((await maker.post(`/api/workshop/orders/${orderNumber}/refund`, { reason: 'the customer changed their mind' })).status).toBe(202)
+    await waitFor(async () => (await orderAs(orderNumber, accessToken)).status === 'refunded', 10_000, 'the refund')
+    expect((await board()).map(t => t.stage)).toEqual(['done', 'done'])
+  })
+
   it('the maker lists, searches and exports orders, and cancels an unpaid one', async () => {
     const product = await newProduct({ stock: 3 })
     const created = await checkout(new Client(), [{ slug: product.slug, qty: 1 }])
