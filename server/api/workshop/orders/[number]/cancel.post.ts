@@ -26,6 +26,9 @@ export default defineEventHandler(async (event) => {
     if (moved) await returnStock(tx, order.id)
     return moved
   })
-  if (!cancelled) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'The order changed meanwhile (perhaps it was just paid); reload it.' })
-  return { number: cancelled.number, status: cancelled.status }
+  if (cancelled) return { number: cancelled.number, status: cancelled.status }
+  // Closing the payment page sends its own expiry event, which may have cancelled the order first.
+  const [now] = await db.select({ number: orders.number, status: orders.status }).from(orders).where(eq(orders.id, order.id))
+  if (now?.status === 'cancelled') return now
+  throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'The order changed meanwhile (perhaps it was just paid); reload it.' })
 })
