@@ -41,6 +41,11 @@ export interface MonoSampleSource {
   sampleRate: number
   frames: number
   readMono(start: number, count: number, out: Float32Array): void
+  /**
+   * For 16-bit mono PCM: the data chunk's bytes (little-endian, 2 per sample), which the analysis
+   * kernel converts itself, faster than readMono.
+   */
+  pcm16Mono?: Uint8Array
 }
 
 export interface DecodedWav extends MonoSampleSource {
@@ -430,6 +435,7 @@ export function decodeWav(input: Uint8Array): DecodedWav {
     sampleFormat,
     formatTag: fmt.audioFormat,
     durationS,
+    pcm16Mono: channels === 1 && bits === 16 && sampleFormat === 'int' ? data : undefined,
     readMono(start, count, out) {
       if (start < 0 || count < 0 || start + count > frames || count > out.length) {
         throw new RangeError(`readMono(${start}, ${count}) outside 0…${frames} or the buffer`)

@@ -2,15 +2,16 @@
 // mean square, A-weighted mean square, per-frame energies (plain and A-weighted, 10 ms frames) for
 // the envelopes, and the per-frame step statistics the click detector needs.
 //
-// Speed notes (this is the hot loop of the analysis, ~6.6 M samples for a 150 s recording):
-//  * the source is read in chunks into one reusable Float32Array — touching fresh memory costs a
-//    page fault per 4 KiB, which on a VM is slower than the arithmetic itself;
-//  * A-weighting runs as direct-form-I biquads sharing their histories (the two low-cut sections
-//    have the numerator 1 − 2z⁻¹ + z⁻², so their feed-forward part is two subtractions), all
-//    state in locals;
-//  * no data-dependent branches (Math.abs / Math.max, not `x < 0 ? …`): random signs would make
-//    a branch mispredict half the time.
+// Speed: this is the hot loop of the analysis (~6.6 M samples for a 150 s recording). It runs in a
+// small WebAssembly kernel (kernel/surfacePass.wat) with 128-bit SIMD: two lanes of doubles filter
+// two halves of the recording side by side. The A-weighting filter is recursive, so the second half
+// cannot start from nothing: its lane starts WARM_UP_FRAMES (0.5 s) early and those frames are
+// thrown away (the first half's lane has computed them). The slowest pole of the filter is 20.6 Hz;
+// after 0.5 s its start-up transient is below 10⁻¹³ of the signal. 16-bit mono files, the usual
+// case, are converted to floats inside the kernel too. The same computation one sample at a time in
+// TypeScript is tests/unit/support/surfacePassReference.ts, against which the kernel is tested.
 import { designAWeightingFilter } from './aWeighting'
+import { OUT_VALUES_PER_FRAME, surfacePassKernel } from './kernel/surfacePassKernel'
 import type { MonoSampleSource } from './decode'
 
 /** AES17 / IEC 61606: RMS dBFS of a full-scale sine is 0, so add 10·log10(2) to 20·log10(rms). */
@@ -24,9 +25,6 @@ export function toDb(power: number): number {
 }
 
 export const FRAME_SECONDS = 0.01
-/** Frames converted and processed per read (1.6 s): small enough to stay in cache. */
-const FRAMES_PER_CHUNK = 160
-
 export interface SurfacePass {
   sampleRate: number
   samples: number
@@ -48,83 +46,93 @@ export function frameLengthFor(sampleRate: number): number {
   return Math.max(1, Math.round(sampleRate * FRAME_SECONDS))
 }
 
+/** Frames the second lane runs before its own stretch, so its filter has settled (0.5 s). */
+export const WARM_UP_FRAMES = 50
+
 export function runSurfacePass(source: MonoSampleSource): SurfacePass {
   const { sampleRate, frames: n } = source
   const frameLength = frameLengthFor(sampleRate)
-  const chunkLength = frameLength * FRAMES_PER_CHUNK
   const frameCount = Math.ceil(n / frameLength)
+  const fullFrames = Math.floor(n / frameLength)
   const frameEnergy = new Float64Array(frameCount)
   const aWeightedFrameEnergy = new Float64Array(frameCount)
   const frameMaxStep = new Float32Array(frameCount)
   const frameMeanStep = new Float32Array(frameCount)
-  const buffer = new Float32Array(Math.min(chunkLength, Math.max(1, n)))
+
+  const kernel = surfacePassKernel(frameLength)
+  const { pass, chunkFrames, coef, state, laneA, laneB, out, coefValues, stateValues, outValues } = kernel
 
   // Direct form I with shared histories. Sections 1 and 2 have the numerator 1 − 2z⁻¹ + z⁻² (by
   // construction, see aWeighting.ts), a second difference: with d = x[n] − x[n−1] (also the click
   // detector's step) it is d − d_prev, and likewise for section 2 on y1. Sections 3 and 4 are
   // scaled to b0 = 1 and their gains applied once per frame.
   const [s1, s2, s3, s4] = designAWeightingFilter(sampleRate).sections
-  const a11 = s1.a1, a12 = s1.a2, a21 = s2.a1, a22 = s2.a2
-  const c31 = s3.b1 / s3.b0, c32 = s3.b2 / s3.b0, a31 = s3.a1, a32 = s3.a2
-  const c41 = s4.b1 / s4.b0, c42 = s4.b2 / s4.b0
+  coefValues.set([s1.a1, s1.a2, s2.a1, s2.a2, s3.b1 / s3.b0, s3.b2 / s3.b0, s3.a1, s3.a2, s4.b1 / s4.b0, s4.b2 / s4.b0])
   const outputGain = s3.b0 * s4.b0
   const outputPowerGain = outputGain * outputGain
 
+  const pcm16 = source.pcm16Mono
+  const load = (lane: number, start: number, count: number) => {
+    if (pcm16) kernel.loadLanePcm16(lane, pcm16.subarray(start * 2, (start + count) * 2))
+    else kernel.loadLane(lane, view => source.readMono(start, count, view), count)
+  }
+  const one = new Float32Array(1)
+  const sampleAt = (index: number) => {
+    source.readMono(index, 1, one)
+    return one[0]!
+  }
+
+  // Lane 0 covers frames [0, laneFrames), lane 1 [secondStart, secondStart + laneFrames): the
+  // overlap (≥ WARM_UP_FRAMES) is lane 1's warm-up. A short recording runs in lane 0 alone (lane 1
+  // repeats it and is ignored).
+  const twoLanes = fullFrames >= 4 * WARM_UP_FRAMES
+  const laneFrames = twoLanes ? Math.ceil((fullFrames + WARM_UP_FRAMES) / 2) : fullFrames
+  const secondStart = fullFrames - laneFrames
+
   // Start as if the first sample's value had always been there: no step at the start, and a DC
-  // offset does not kick the low-cut filters.
-  if (n > 0) source.readMono(0, 1, buffer)
-  let x1 = n > 0 ? buffer[0]! : 0
-  let d1 = 0, e1 = 0
-  let y1p = 0, y1pp = 0, y2p = 0, y2pp = 0, y3p = 0, y3pp = 0
+  // offset does not kick the low-cut filters (their steady state for a constant input is zero).
+  stateValues.fill(0)
+  if (n > 0) {
+    stateValues[0] = sampleAt(0)
+    stateValues[1] = sampleAt(secondStart * frameLength)
+  }
+
+  const keep = (lane: 0 | 1, frame: number, slot: number, samples: number) => {
+    const base = slot * OUT_VALUES_PER_FRAME + lane
+    frameEnergy[frame] = outValues[base]!
+    aWeightedFrameEnergy[frame] = outValues[base + 2]! * outputPowerGain
+    frameMaxStep[frame] = outValues[base + 6]!
+    frameMeanStep[frame] = outValues[base + 8]! / samples
+    return outValues[base + 4]!
+  }
+
   let peak = 0
+  for (let done = 0; done < laneFrames; done += chunkFrames) {
+    const frames = Math.min(chunkFrames, laneFrames - done)
+    load(laneA, done * frameLength, frames * frameLength)
+    load(laneB, (secondStart + done) * frameLength, frames * frameLength)
+    pass(coef, state, laneA, laneB, frames, frameLength, out)
+    for (let slot = 0; slot < frames; slot++) {
+      peak = Math.max(peak, keep(0, done + slot, slot, frameLength))
+      const second = secondStart + done + slot
+      if (twoLanes && second >= laneFrames) peak = Math.max(peak, keep(1, second, slot, frameLength))
+    }
+  }
+  // The last, partial frame continues lane 1, which ends where the full frames end (lane 0 is
+  // given the same samples and ignored).
+  const rest = n - fullFrames * frameLength
+  if (rest > 0) {
+    load(laneA, fullFrames * frameLength, rest)
+    load(laneB, fullFrames * frameLength, rest)
+    pass(coef, state, laneA, laneB, 1, rest, out)
+    peak = Math.max(peak, keep(1, fullFrames, 0, rest))
+  }
+
   let total = 0
   let aTotal = 0
-  let frame = 0
-
-  for (let chunkStart = 0; chunkStart < n; chunkStart += chunkLength) {
-    const count = Math.min(chunkLength, n - chunkStart)
-    source.readMono(chunkStart, count, buffer)
-    for (let frameStart = 0; frameStart < count; frameStart += frameLength, frame++) {
-      const frameEnd = Math.min(count, frameStart + frameLength)
-      let sum = 0
-      let aSum = 0
-      let maxAbs = 0
-      let maxStep = 0
-      let stepSum = 0
-      for (let i = frameStart; i < frameEnd; i++) {
-        const x = buffer[i]!
-        sum += x * x
-        maxAbs = Math.max(maxAbs, Math.abs(x))
-        const d = x - x1
-        const step = Math.abs(d)
-        maxStep = Math.max(maxStep, step)
-        stepSum += step
-        // The y_prev term last: it is the one on the recursive critical path.
-        const y1 = d - d1 - a12 * y1pp - a11 * y1p
-        const e = y1 - y1p
-        const y2 = e - e1 - a22 * y2pp - a21 * y2p
-        const y3 = y2 + c31 * y2p + c32 * y2pp - a32 * y3pp - a31 * y3p
-        const y4 = y3 + c41 * y3p + c42 * y3pp
-        aSum += y4 * y4
-        x1 = x
-        d1 = d
-        e1 = e
-        y1pp = y1p
-        y1p = y1
-        y2pp = y2p
-        y2p = y2
-        y3pp = y3p
-        y3p = y3
-      }
-      aSum *= outputPowerGain
-      frameEnergy[frame] = sum
-      aWeightedFrameEnergy[frame] = aSum
-      frameMaxStep[frame] = maxStep
-      frameMeanStep[frame] = stepSum / (frameEnd - frameStart)
-      peak = Math.max(peak, maxAbs)
-      total += sum
-      aTotal += aSum
-    }
+  for (let frame = 0; frame < frameCount; frame++) {
+    total += frameEnergy[frame]!
+    aTotal += aWeightedFrameEnergy[frame]!
   }
 
   return {
