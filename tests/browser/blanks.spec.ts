@@ -127,6 +127,36 @@ test('the analyse page measures a chosen file, plots it and plays it from the br
   await page.screenshot({ path: `${shots}/blanks-analyse-phone.png`, fullPage: true })
 })
 
+test('the maker tightens the surface-test limits in settings, and the next analysis is judged by them', async ({ page }) => {
+  await page.setViewportSize({ width: 1280, height: 900 })
+  await signInAsMaker(page)
+  await page.goto('/workshop/settings')
+  const limits = page.locator('form', { has: page.getByRole('heading', { name: 'Surface-test limits' }) })
+  const noise = limits.getByRole('group', { name: /Surface noise, A-weighted/ })
+  // A fail limit below the marginal one is refused beside the field, and nothing is saved.
+  await noise.getByLabel('Fail above').fill('-60')
+  await limits.getByRole('button', { name: 'Save limits' }).click()
+  await expect(noise.getByText('the fail limit must not be below the marginal limit')).toBeVisible()
+  await noise.getByLabel('Marginal above').fill('−90')
+  await noise.getByLabel('Fail above').fill('-80')
+  await limits.getByRole('button', { name: 'Save limits' }).click()
+  await expect(limits.getByText('Saved.')).toBeVisible()
+  await expectNoSeriousAxeViolations(page)
+  try {
+    await page.goto('/workshop/analyse')
+    await page.getByLabel('Play-through recording (WAV)').setInputFiles(wavPath)
+    await page.getByRole('button', { name: 'Upload and analyse' }).click()
+    await expect(page.getByTestId('analysis')).toContainText('above the fail limit of −80.0 dBFS')
+  }
+  finally {
+    await page.goto('/workshop/settings')
+    await limits.getByRole('button', { name: 'Fill in the shop defaults' }).click()
+    await limits.getByRole('button', { name: 'Save limits' }).click()
+    await expect(limits.getByText('Saved.')).toBeVisible()
+  }
+  await expect(noise.getByLabel('Fail above')).toHaveValue('-44')
+})
+
 test('a label prints the code as a barcode with batch and format', async ({ page, baseURL }) => {
   await signInAsMaker(page)
   const { cast } = await prepareBlanks(page, baseURL!)

@@ -480,3 +480,49 @@ describe('roles', () => {
     }
   })
 })
+
+// ——— the maker's surface-test limits (issue 4: "thresholds that the maker sets") ———
+
+describe('surface-test limits: GET/PUT /api/workshop/settings/surface', () => {
+  const path = '/api/workshop/settings/surface'
+  const limits = (aWeighted: [number, number], rotary: [number, number], clicks: [number, number]) => ({
+    aWeightedDbfs: { marginal: aWeighted[0], fail: aWeighted[1] },
+    rotaryDb: { marginal: rotary[0], fail: rotary[1] },
+    clicksPerMinute: { marginal: clicks[0], fail: clicks[1] },
+  })
+
+  it('refuses bad limits naming the field and keeps the old ones; judges new analyses by the saved ones', async () => {
+    const before = await maker.get(path)
+    expect(before.status).toBe(200)
+    // The shop defaults, documented in server/utils/audio/verdict.ts (common practice, no source).
+    expect(before.body.defaults).toEqual(limits([-50, -44], [15, 25], [6, 15]))
+    try {
+      const bad: [unknown, string][] = [
+        [limits([-50, -44], [30, 20], [6, 15]), 'rotaryDb.fail'],
+        [{ ...limits([-50, -44], [15, 25], [6, 15]), aWeightedDbfs: { marginal: 'loud', fail: -44 } }, 'aWeightedDbfs.marginal'],
+        [limits([-130, -44], [15, 25], [6, 15]), 'aWeightedDbfs.marginal'],
+        [limits([-50, -44], [15, 25], [6, -1]), 'clicksPerMinute.fail'],
+      ]
+      for (const [body, field] of bad) {
+        const answer = await maker.put(path, body)
+        expect(answer.status, JSON.stringify(answer.body)).toBe(400)
+        expect(Object.keys(answer.body.data.fields)).toContain(field)
+      }
+      expect((await maker.put(path, { ...limits([-50, -44], [15, 25], [6, 15]), volume: 11 })).status).toBe(400)
+      expect((await maker.get(path)).body.thresholds).toEqual(before.body.thresholds)
+
+      const quiet = quietWav()
+      expect((await upload(maker, '/api/workshop/surface-tests/analyse', { name: 'quiet.wav', bytes: quiet })).body.verdict).toBe('pass')
+      const strict = await maker.put(path, limits([-90, -80], [15, 25], [6, 15]))
+      expect(strict.status).toBe(200)
+      expect(strict.body.thresholds.aWeightedDbfs).toEqual({ marginal: -90, fail: -80 })
+      const judged = await upload(maker, '/api/workshop/surface-tests/analyse', { name: 'quiet.wav', bytes: quiet })
+      expect(judged.body.verdict).toBe('fail')
+      expect(judged.body.reasons.join(' ')).toContain('fail limit of −80.0 dBFS')
+    }
+    finally {
+      expect((await maker.put(path, before.body.thresholds)).status).toBe(200)
+    }
+    expect((await maker.get(path)).body.thresholds).toEqual(before.body.thresholds)
+  })
+})

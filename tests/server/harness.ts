@@ -120,6 +120,10 @@ export class Client {
   get<T = any>(path: string) {
     return this.request<T>(path)
   }
+
+  put<T = any>(path: string, body: unknown) {
+    return this.request<T>(path, { method: 'PUT', body })
+  }
 }
 
 export async function signedIn(email: string, password: string): Promise<Client> {

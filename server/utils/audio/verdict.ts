@@ -1,11 +1,18 @@
 // The maker's limits for a surface test and the verdict they give.
 import { z } from 'zod'
 
-const limitPair = (marginal: number, fail: number, what: string) =>
-  z
-    .object({ marginal: z.number().finite(), fail: z.number().finite() })
-    .refine(pair => pair.marginal <= pair.fail, { message: `${what}: the marginal limit must not be above the fail limit` })
+interface LimitRange { min: number, max: number, unit: string }
+
+const limitPair = (marginal: number, fail: number, what: string, range: LimitRange) => {
+  const limit = z
+    .number({ error: 'Enter a number.' })
+    .min(range.min, `Enter ${range.min} ${range.unit} or more.`)
+    .max(range.max, `Enter ${range.max} ${range.unit} or less.`)
+  return z
+    .object({ marginal: limit, fail: limit })
+    .refine(pair => pair.marginal <= pair.fail, { path: ['fail'], message: `${what}: the fail limit must not be below the marginal limit.` })
     .prefault({ marginal, fail })
+}
 
 /**
  * Limits set by the maker (shop settings). For each measure, higher is worse: above `marginal`
@@ -19,9 +26,9 @@ const limitPair = (marginal: number, fail: number, what: string) =>
  */
 export const surfaceThresholdsSchema = z
   .object({
-    aWeightedDbfs: limitPair(-50, -44, 'A-weighted level'),
-    rotaryDb: limitPair(15, 25, 'Once-per-turn strength'),
-    clicksPerMinute: limitPair(6, 15, 'Clicks per minute'),
+    aWeightedDbfs: limitPair(-50, -44, 'A-weighted level', { min: -120, max: 0, unit: 'dBFS' }),
+    rotaryDb: limitPair(15, 25, 'Once-per-turn strength', { min: 0, max: 80, unit: 'dB' }),
+    clicksPerMinute: limitPair(6, 15, 'Clicks per minute', { min: 0, max: 600, unit: 'per minute' }),
   })
   .prefault({})
 

@@ -1,0 +1,7 @@
+// The maker's limits for surface-test verdicts, with the shop defaults beside them.
+import { surfaceThresholdsSchema } from '../../../utils/audio'
+
+export default defineEventHandler(async (event) => {
+  await requireRole(event, 'maker')
+  return { thresholds: await getSetting('surface'), defaults: surfaceThresholdsSchema.parse({}) }
+})
