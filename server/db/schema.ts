@@ -54,6 +54,17 @@ export const signInFailures = pgTable('sign_in_failures', {
   index('sign_in_failures_address').on(table.address, table.at),
 ])
 
+// Password-reset requests, for their rate limit (server/utils/throttle.ts); any e-mail, account or not.
+export const resetRequests = pgTable('reset_requests', {
+  id: serial('id').primaryKey(),
+  email: text('email').notNull(),
+  address: text('address').notNull(),
+  at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('reset_requests_email').on(table.email, table.at),
+  index('reset_requests_address').on(table.address, table.at),
+])
+
 export const passwordResets = pgTable('password_resets', {
   tokenHash: text('token_hash').primaryKey(),
   userId: integer('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),

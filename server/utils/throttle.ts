@@ -1,46 +1,83 @@
 import { and, count, eq, gte, min } from 'drizzle-orm'
 import type { H3Event } from 'h3'
-import { signInFailures } from '../db/schema'
+import { resetRequests, signInFailures } from '../db/schema'
 
-const windowMs = 15 * 60 * 1000
+const signInWindowMs = 15 * 60 * 1000
 const perAccountLimit = 5
 // An address may be shared (an office, a household), so it gets more room than one account.
 const perAddressLimit = 20
+
+const resetWindowMs = 60 * 60 * 1000
+const resetsPerEmail = 3
+const resetsPerAddress = 20
 
 export function clientAddress(event: H3Event): string {
   return getRequestIP(event) ?? 'unknown'
 }
 
-async function failuresSince(column: typeof signInFailures.email | typeof signInFailures.address, value: string, since: Date) {
+type Log = typeof signInFailures | typeof resetRequests
+
+async function eventsSince(log: Log, column: 'email' | 'address', value: string, since: Date) {
   const db = await useDB()
-  const [row] = await db.select({ failures: count(), oldest: min(signInFailures.at) }).from(signInFailures)
-    .where(and(eq(column, value), gte(signInFailures.at, since)))
-  return { failures: row?.failures ?? 0, oldest: row?.oldest ?? null }
+  const [row] = await db.select({ events: count(), oldest: min(log.at) }).from(log)
+    .where(and(eq(log[column], value), gte(log.at, since)))
+  return { events: row?.events ?? 0, oldest: row?.oldest ?? null }
 }
 
-/** Throws 429 when this account or this address has failed too often in the last 15 minutes. */
-export async function assertSignInAllowed(event: H3Event, email: string) {
-  const since = new Date(Date.now() - windowMs)
-  const byAccount = await failuresSince(signInFailures.email, email, since)
-  const byAddress = await failuresSince(signInFailures.address, clientAddress(event), since)
-  const blocked = byAccount.failures >= perAccountLimit ? byAccount : byAddress.failures >= perAddressLimit ? byAddress : null
-  if (!blocked) return
-  const oldest = blocked.oldest ? new Date(blocked.oldest).getTime() : Date.now()
+/** The 429 for a window that is full, saying how long until its oldest event leaves it. */
+function tooMany(event: H3Event, oldestAt: Date | string | null, windowMs: number, message: (wait: string) => string) {
+  const oldest = oldestAt ? new Date(oldestAt).getTime() : Date.now()
   const minutes = Math.max(1, Math.ceil((oldest + windowMs - Date.now()) / 60_000))
   setResponseHeader(event, 'Retry-After', minutes * 60)
-  throw createError({
-    statusCode: 429,
-    statusMessage: 'Too many attempts',
-    message: `Too many failed sign-ins. For your safety, sign-in is paused for about ${minutes} minute${minutes === 1 ? '' : 's'}; you can also reset your password.`,
-  })
+  return createError({ statusCode: 429, statusMessage: 'Too many attempts', message: message(`about ${minutes} minute${minutes === 1 ? '' : 's'}`) })
 }
 
-export async function recordSignInFailure(event: H3Event, email: string) {
+/** Which limit (if any) the account's and the address's events in the window break; `over` counts an event already logged. */
+async function fullWindow(log: Log, event: H3Event, email: string, windowMs: number, limits: { email: number, address: number }, over = 0) {
+  const since = new Date(Date.now() - windowMs)
+  const byEmail = await eventsSince(log, 'email', email, since)
+  if (byEmail.events >= limits.email + over) return byEmail
+  const byAddress = await eventsSince(log, 'address', clientAddress(event), since)
+  return byAddress.events >= limits.address + over ? byAddress : null
+}
+
+const signInPaused = (wait: string) => `Too many failed sign-ins. For your safety, sign-in is paused for ${wait}; you can also reset your password.`
+
+/**
+ * Before a password is checked: throws 429 when this account or this address has failed too often
+ * in the last 15 minutes. Otherwise the attempt is logged as a failure *before* the check (and
+ * cleared by clearSignInFailures when the password is right), so parallel guesses cannot slip past
+ * the limit: an attempt goes ahead only if, with it logged, the window is not over the limit.
+ */
+export async function beginSignInAttempt(event: H3Event, email: string): Promise<void> {
+  const limits = { email: perAccountLimit, address: perAddressLimit }
+  const full = await fullWindow(signInFailures, event, email, signInWindowMs, limits)
+  if (full) throw tooMany(event, full.oldest, signInWindowMs, signInPaused)
   const db = await useDB()
-  await db.insert(signInFailures).values({ email, address: clientAddress(event) })
+  const [logged] = await db.insert(signInFailures).values({ email, address: clientAddress(event) }).returning({ id: signInFailures.id })
+  const over = await fullWindow(signInFailures, event, email, signInWindowMs, limits, 1)
+  if (over) {
+    // Others got in first: this attempt is refused unchecked, so it is not a failure.
+    await db.delete(signInFailures).where(eq(signInFailures.id, logged!.id))
+    throw tooMany(event, over.oldest, signInWindowMs, signInPaused)
+  }
 }
 
 export async function clearSignInFailures(email: string) {
   const db = await useDB()
   await db.delete(signInFailures).where(eq(signInFailures.email, email))
+}
+
+/**
+ * Password-reset requests: at most 3 an hour for one e-mail address (whether or not it has an
+ * account, so the limit tells nothing about accounts) and 20 an hour from one network address (it may be a shared one).
+ * Logs the request when it is allowed.
+ */
+export async function logResetRequest(event: H3Event, email: string): Promise<void> {
+  const full = await fullWindow(resetRequests, event, email, resetWindowMs, { email: resetsPerEmail, address: resetsPerAddress })
+  if (full) {
+    throw tooMany(event, full.oldest, resetWindowMs, wait => `Too many reset requests for this address. Check your inbox (and spam folder) for the links already sent, or try again in ${wait}.`)
+  }
+  const db = await useDB()
+  await db.insert(resetRequests).values({ email, address: clientAddress(event) })
 }

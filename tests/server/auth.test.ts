@@ -57,6 +57,16 @@ describe('registration and sign-in', () => {
     expect((await client.post('/api/auth/login', { email, password })).status).toBe(429)
   })
 
+  it('lets at most 5 of 12 parallel wrong guesses be checked; the rest are 429 (common practice, no source)', async () => {
+    const { email, password } = await register('parallel')
+    const answers = await Promise.all(Array.from({ length: 12 }, (_, i) => new Client().post('/api/auth/login', { email, password: `guess-${i}` })))
+    const statuses = answers.map(a => a.status)
+    expect(statuses.filter(s => s === 401).length).toBeGreaterThanOrEqual(1)
+    expect(statuses.filter(s => s === 401).length).toBeLessThanOrEqual(5)
+    expect(statuses.filter(s => s !== 401 && s !== 429)).toEqual([])
+    expect((await new Client().post('/api/auth/login', { email, password })).status).toBe(429)
+  })
+
   it('signs out', async () => {
     const { client } = await register('signout')
     expect((await client.get('/api/auth/me')).status).toBe(200)
@@ -201,6 +211,18 @@ describe('passwords and mail', () => {
     expect(answer.status).toBe(200)
     await new Promise(resolve => setTimeout(resolve, 600))
     expect(mail.fake.list().filter(m => m.to.includes(email))).toHaveLength(0)
+  })
+
+  it('answers a 4th reset request for one address within the hour with 429, whether or not it has an account', async () => {
+    for (const email of [freshEmail('nobody-often'), (await register('reset-often')).email]) {
+      for (let request = 1; request <= 3; request++) {
+        expect((await new Client().post('/api/auth/reset-request', { email })).status, `request ${request} for ${email}`).toBe(200)
+      }
+      const fourth = await new Client().post('/api/auth/reset-request', { email })
+      expect(fourth.status).toBe(429)
+      expect(fourth.body.message).toMatch(/Too many reset requests.*about (59|60) minutes/)
+      expect(Number(fourth.headers.get('retry-after'))).toBeGreaterThan(0)
+    }
   })
 
   it('with the mail server down, registration succeeds and the welcome mail arrives once after it returns', async () => {

@@ -6,13 +6,13 @@ let decoyHash: Promise<string> | undefined
 
 export default defineEventHandler(async (event) => {
   const input = await readBodyWith(event, loginSchema)
-  await assertSignInAllowed(event, input.email)
+  await beginSignInAttempt(event, input.email)
   const db = await useDB()
   const [user] = await db.select().from(users).where(sql`lower(${users.email}) = ${input.email}`).limit(1)
   decoyHash ??= hashPassword('decoy-password-for-timing')
   const valid = await verifyPassword(user?.passwordHash ?? await decoyHash, input.password)
   if (!user || !valid) {
-    await recordSignInFailure(event, input.email)
+    // The attempt was logged as a failure before the check; it stays.
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'The e-mail or the password is not right.' })
   }
   await clearSignInFailures(input.email)

@@ -4,6 +4,7 @@ import { passwordResets, users } from '../../db/schema'
 
 export default defineEventHandler(async (event) => {
   const input = await readBodyWith(event, resetRequestSchema)
+  await logResetRequest(event, input.email)
   const config = useRuntimeConfig(event)
   const db = await useDB()
   const [user] = await db.select().from(users).where(sql`lower(${users.email}) = ${input.email}`).limit(1)
