@@ -20,7 +20,9 @@ export default defineNuxtConfig({
   runtimeConfig: {
     // Every key can be set at run time with NUXT_<KEY> (e.g. NUXT_DB_DIR, NUXT_SMTP_PORT).
     dbDir: '.data/db',
-    // Uploaded photos and audio samples (Nitro storage `uploads`, file system driver).
+    // Uploaded photos and audio samples (Nitro storage `uploads`): `fs` keeps them in `uploadsDir`;
+    // `build` keeps the mount of nitro.storage.uploads below as built (e.g. shared S3-compatible storage).
+    uploadsDriver: 'fs',
     uploadsDir: '.data/uploads',
     migrationsDir,
     seedDemo: 'true',
@@ -55,7 +57,8 @@ export default defineNuxtConfig({
   nitro: {
     ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
     storage: {
-      // Re-mounted at run time at `uploadsDir` (NUXT_UPLOADS_DIR) by server/utils/uploads.ts.
+      // Re-mounted at run time at `uploadsDir` (NUXT_UPLOADS_DIR) by server/utils/uploads.ts, unless
+      // NUXT_UPLOADS_DRIVER=build: then this mount is used as it is (put a shared driver here).
       uploads: { driver: 'fs', base: '.data/uploads' },
     },
     // Node 20 runs ES2022 (BigInt literals in the money and length engines among it).

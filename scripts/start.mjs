@@ -37,6 +37,11 @@ if (!sessionPassword) {
   sessionPassword = readFileSync(file, 'utf8').trim()
 }
 
+// A one-time code for /setup when the shop has no maker yet (a shop started with NUXT_SEED_DEMO=false).
+const setupCode = process.env.NUXT_SETUP_TOKEN || randomBytes(18).toString('base64url')
+// SEED_DEMO is accepted as another name for NUXT_SEED_DEMO.
+const seedDemo = process.env.NUXT_SEED_DEMO ?? process.env.SEED_DEMO ?? 'true'
+
 const children = []
 function run(name, args, env = {}) {
   const child = spawn(process.execPath, args, { stdio: ['ignore', 'inherit', 'inherit'], env: { ...process.env, ...env } })
@@ -75,6 +80,8 @@ run('server', [`${outputDir}/server/index.mjs`], {
   NUXT_PUBLIC_SITE_URL: siteUrl,
   NUXT_SMTP_PORT: String(mailSmtpPort),
   NUXT_STRIPE_API_PORT: String(stripePort),
+  NUXT_SEED_DEMO: seedDemo,
+  NUXT_SETUP_TOKEN: setupCode,
 })
 
 const deadline = Date.now() + 120_000
@@ -88,11 +95,15 @@ while (Date.now() < deadline && !stopping) {
 }
 
 const { demoAccounts } = await import('../shared/utils/demoAccounts.ts').catch(() => ({ demoAccounts: null }))
+const setupNeeded = await fetch(`http://127.0.0.1:${port}/api/setup`).then(r => r.json()).then(b => b.needed === true, () => false)
 console.log(`
 Groovewright is running.
   Shop:          ${siteUrl}
   Mail inbox:    http://127.0.0.1:${mailHttpPort}/  (every e-mail the shop sends lands here)
-  Payments:      local test checkout on http://127.0.0.1:${stripePort}/ (no real money moves)
-  Demo sign-ins:`)
-for (const account of demoAccounts ?? []) console.log(`    ${account.role.padEnd(10)} ${account.email.padEnd(30)} ${account.password}`)
+  Payments:      local test checkout on http://127.0.0.1:${stripePort}/ (no real money moves)`)
+if (setupNeeded) console.log(`  First maker:   ${siteUrl}/setup#code=${setupCode}  (no maker account yet: make one here)`)
+if (seedDemo !== 'false') {
+  console.log('  Demo sign-ins:')
+  for (const account of demoAccounts ?? []) console.log(`    ${account.role.padEnd(10)} ${account.email.padEnd(30)} ${account.password}`)
+}
 console.log('\nPress Ctrl-C to stop.')

@@ -7,8 +7,11 @@ export default defineNitroPlugin((nitroApp) => {
 
   const loop = async () => {
     try {
-      await requeueInterruptedMail()
-      await deliverDueMail()
+      // With several app instances on one PostgreSQL server, one delivers at a time (the others skip the pass).
+      await withInstanceLock('mail', async () => {
+        await requeueInterruptedMail()
+        await deliverDueMail()
+      }, { wait: false })
     }
     catch (error) {
       console.error('[mail] outbox pass failed:', error instanceof Error ? error.message : error)
@@ -23,7 +26,10 @@ export default defineNitroPlugin((nitroApp) => {
 
   const starting = (async () => {
     const db = await useDB()
-    if (String(config.seedDemo) !== 'false') await seedIfEmpty(db)
+    // NUXT_SEED_DEMO (runtime config), or SEED_DEMO when that is not set.
+    const seedDemo = process.env.NUXT_SEED_DEMO === undefined && process.env.SEED_DEMO !== undefined ? process.env.SEED_DEMO : String(config.seedDemo)
+    if (seedDemo !== 'false') await withInstanceLock('seed', () => seedIfEmpty(db))
+    await announceSetupIfNeeded(db, String(config.siteUrl))
     await requeueInterruptedMail()
     backupToken()
     if (!stopped) timer = setTimeout(loop, 200)

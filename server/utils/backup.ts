@@ -18,9 +18,11 @@ export async function writeBackupArchive(target: string): Promise<{ file: string
   const work = await mkdtemp(join(tmpdir(), 'gw-backup-'))
   try {
     await writeFile(join(work, 'database.tar.gz'), database)
-    await writeFile(join(work, 'manifest.json'), JSON.stringify({ createdAt: new Date().toISOString(), format: 1, contents: ['database.tar.gz', 'uploads/'] }, null, 2))
+    // Uploads in shared storage (NUXT_UPLOADS_DRIVER=build) are backed up with that storage's own tools.
+    const localUploads = uploadsOnLocalDisk()
+    await writeFile(join(work, 'manifest.json'), JSON.stringify({ createdAt: new Date().toISOString(), format: 1, contents: ['database.tar.gz', 'uploads/'], uploadsIncluded: localUploads }, null, 2))
     const uploads = resolve(String(useRuntimeConfig().uploadsDir))
-    if (existsSync(uploads)) await symlink(uploads, join(work, 'uploads'), 'dir')
+    if (localUploads && existsSync(uploads)) await symlink(uploads, join(work, 'uploads'), 'dir')
     else await mkdir(join(work, 'uploads'))
     const partial = `${target}.partial`
     await createTar({ gzip: true, file: partial, cwd: work, portable: true, follow: true }, ['manifest.json', 'database.tar.gz', 'uploads'])

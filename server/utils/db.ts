@@ -17,8 +17,11 @@ let closeClient: (() => Promise<void>) | undefined
 let embeddedClient: PGlite | undefined
 let ready: Promise<Database> | undefined
 
-// Any fixed number: every app instance that starts takes this lock before migrating.
+// Any fixed numbers: every app instance that starts takes this lock before migrating; the others
+// are held by withInstanceLock.
 const migrationLockKey = 7_310_426_011
+const instanceLockKeys = { seed: 7_310_426_012, mail: 7_310_426_013 } as const
+let serverPool: pg.Pool | undefined
 
 /**
  * The one database of this process. The first call opens it and applies the migrations; every caller
@@ -65,7 +68,39 @@ async function openServer(connectionString: string): Promise<Database> {
     lockClient.release()
   }
   closeClient = () => pool.end()
+  serverPool = pool
   return drizzleNodePg(pool, { schema }) as unknown as Database
+}
+
+/**
+ * Run `work` as the only app instance doing it: on a PostgreSQL server under a session advisory
+ * lock (held on one pooled connection), so instances started together seed the demo once and
+ * deliver the mail outbox one at a time. With `wait: false` it gives up at once (null) when another
+ * instance holds the lock. The embedded database belongs to this process alone, so there it just runs.
+ */
+export async function withInstanceLock<T>(name: keyof typeof instanceLockKeys, work: () => Promise<T>, options: { wait: boolean } = { wait: true }): Promise<T | null> {
+  await useDB()
+  if (!serverPool) return await work()
+  const key = instanceLockKeys[name]
+  const client = await serverPool.connect()
+  try {
+    if (options.wait) {
+      await client.query('select pg_advisory_lock($1)', [key])
+    }
+    else {
+      const { rows } = await client.query<{ locked: boolean }>('select pg_try_advisory_lock($1) as locked', [key])
+      if (!rows[0]?.locked) return null
+    }
+    try {
+      return await work()
+    }
+    finally {
+      await client.query('select pg_advisory_unlock($1)', [key]).catch(() => undefined)
+    }
+  }
+  finally {
+    client.release()
+  }
 }
 
 /**
@@ -84,6 +119,7 @@ export async function closeDB(): Promise<void> {
   const close = closeClient
   closeClient = undefined
   embeddedClient = undefined
+  serverPool = undefined
   ready = undefined
   if (close) await close()
 }

@@ -19,16 +19,26 @@ const PHOTO_MAX_EDGE_PX = 2000
 
 let storageReady: Promise<Storage> | undefined
 
+/** Whether uploads live in the local folder `NUXT_UPLOADS_DIR` (the default) rather than shared storage. */
+export function uploadsOnLocalDisk(): boolean {
+  const driver = String(useRuntimeConfig().uploadsDriver)
+  if (driver !== 'fs' && driver !== 'build') throw new Error(`NUXT_UPLOADS_DRIVER must be 'fs' or 'build', not '${driver}'`)
+  return driver === 'fs'
+}
+
 /**
- * The `uploads` mount of Nitro storage. nuxt.config mounts `.data/uploads` at build time; here it is
- * mounted again at the run-time directory (`NUXT_UPLOADS_DIR`), so tests and deployments choose it.
+ * The `uploads` mount of Nitro storage. With NUXT_UPLOADS_DRIVER=fs (the default) it is mounted again
+ * at run time on the folder `NUXT_UPLOADS_DIR`, so tests and deployments choose it; with `build` the
+ * mount written in nuxt.config.ts (nitro.storage.uploads, e.g. an S3-compatible bucket) is kept.
  */
 export function uploadStorage(): Promise<Storage> {
   storageReady ??= (async () => {
-    const base = resolve(String(useRuntimeConfig().uploadsDir))
-    const root = useStorage()
-    await root.unmount('uploads', false)
-    root.mount('uploads', fsDriver({ base }))
+    if (uploadsOnLocalDisk()) {
+      const base = resolve(String(useRuntimeConfig().uploadsDir))
+      const root = useStorage()
+      await root.unmount('uploads', false)
+      root.mount('uploads', fsDriver({ base }))
+    }
     return useStorage('uploads')
   })()
   return storageReady

@@ -37,6 +37,11 @@ export const registerSchema = z.object({
   password: newPasswordField,
 })
 
+/** The first maker of a shop without one (/setup): an account plus the setup code from the server's log. */
+export const setupSchema = registerSchema.extend({
+  code: requiredText('code').min(1, 'code is required').max(200, 'code is not right'),
+})
+
 export const loginSchema = z.object({
   email: emailField,
   password: requiredText('password').min(1, 'password is required').max(128, 'password is too long'),
