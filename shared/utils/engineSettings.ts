@@ -14,6 +14,8 @@ const nonNegativeNumber = (name: string) => z.number({ error: `${name} must be a
 const minorUnits = (name: string) => z.number({ error: `${name} must be a number` }).int(`${name} must be whole minor units (cents)`).min(0, `${name} cannot be negative`)
 
 const uniqueIds = (rows: readonly { id: string }[]) => new Set(rows.map(row => row.id)).size === rows.length
+const code = z.string({ error: 'enter a code' }).trim().min(1, 'enter a code').max(40, 'at most 40 characters').regex(/^[a-z0-9_-]+$/i, 'letters, digits, - and _ only')
+const name = z.string({ error: 'enter a name' }).trim().min(1, 'enter a name').max(80, 'at most 80 characters')
 
 const formatSettingsSchema = (recordableLengthIn: number) => z.object({
   recordableLengthIn: lengthField('recordableLengthIn', { positive: true }).default(recordableLengthIn),
@@ -50,8 +52,8 @@ const shavingSettingsSchema = z.object({
 })
 
 const waxFormulaSchema = z.object({
-  id: z.string().min(1),
-  label: z.string().min(1),
+  id: code,
+  label: name,
   /** Volumetric thermal expansion coefficient, per kelvin. */
   volumetricExpansionPerK: positiveNumber('volumetricExpansionPerK'),
 })
@@ -91,8 +93,8 @@ const dimensionsSchema = z.object({
 })
 
 const tubeSchema = z.object({
-  id: z.string().min(1),
-  label: z.string().min(1),
+  id: code,
+  label: name,
   insideDiameterIn: positiveNumber('insideDiameterIn'),
   insideLengthIn: positiveNumber('insideLengthIn'),
   outsideDiameterIn: positiveNumber('outsideDiameterIn'),
@@ -101,8 +103,8 @@ const tubeSchema = z.object({
 })
 
 const boxSchema = z.object({
-  id: z.string().min(1),
-  label: z.string().min(1),
+  id: code,
+  label: name,
   inside: dimensionsSchema,
   /** Board thickness; the outside is the inside plus two walls each way. */
   wallIn: nonNegativeNumber('wallIn'),
@@ -149,15 +151,15 @@ const packingSettingsSchema = z.object({
 })
 
 const shippingZoneSchema = z.object({
-  id: z.string().min(1),
-  label: z.string().min(1),
+  id: code,
+  label: name,
   firstParcelMinor: minorUnits('firstParcelMinor'),
   additionalParcelMinor: minorUnits('additionalParcelMinor'),
 })
 
 const taxRegionSchema = z.object({
-  id: z.string().min(1),
-  label: z.string().min(1),
+  id: code,
+  label: name,
   /** 825 = 8.25 %. */
   rateBasisPoints: z.number().int('rateBasisPoints must be whole basis points').min(0).max(10_000),
   taxShipping: z.boolean(),

@@ -291,3 +291,52 @@ describe('the workshop bench is for makers only', () => {
     expect((await collector.get('/api/bench/playing-time?length=3.6&tpi=100')).status).toBe(200)
   })
 })
+
+describe('the workshop figures: GET/PUT /api/workshop/settings/engine (maker)', () => {
+  const path = '/api/workshop/settings/engine'
+
+  it('refuses bad figures naming each by its path, keeps the old ones, and the bench uses the saved ones', async () => {
+    const before = await maker.get(path)
+    expect(before.status).toBe(200)
+    expect(before.body.settings.speech.wordsPerMinute).toBe(150)
+    const settings = before.body.settings
+    try {
+      const bad: [unknown, string][] = [
+        [{ ...settings, speech: { ...settings.speech, wordsPerMinute: 'fast' } }, 'speech.wordsPerMinute'],
+        [{ ...settings, heat: { ...settings.heat, cautionHighC: 30, holdHighC: 25 } }, 'heat.holdHighC'],
+        [{ ...settings, fit: { ...settings.fit, taper: { perFootIn: 'steep', unverified: true } } }, 'fit.taper.perFootIn'],
+        [{ ...settings, fit: { ...settings.fit, waxFormulas: [{ id: '', label: 'Unnamed', volumetricExpansionPerK: 0.0007 }] } }, 'fit.waxFormulas.0.id'],
+        [{ ...settings, fit: { ...settings.fit, waxFormulas: [settings.fit.waxFormulas[0], settings.fit.waxFormulas[0]] } }, 'fit.waxFormulas'],
+        [{ ...settings, packing: { ...settings.packing, cushioningIn: 1 } }, 'packing.cushioningIn'],
+      ]
+      for (const [body, field] of bad) {
+        const answer = await maker.put(path, body)
+        expect(answer.status, JSON.stringify(answer.body)).toBe(400)
+        expect(Object.keys(answer.body.data.fields)).toContain(field)
+      }
+      expect((await maker.get(path)).body.settings).toEqual(settings)
+
+      // The taper typed as a fraction (stored in inches) and a new wax reach the heat-and-fit calculator.
+      const changed = await maker.put(path, {
+        ...settings,
+        fit: { ...settings.fit, taper: { perFootIn: '1/2', unverified: false }, waxFormulas: [...settings.fit.waxFormulas, { id: 'house_blend', label: 'House blend', volumetricExpansionPerK: 0.0007 }] },
+      })
+      expect(changed.status, JSON.stringify(changed.body)).toBe(200)
+      expect(changed.body.settings.fit.taper).toEqual({ perFootIn: 0.5, unverified: false })
+      const fit = await maker.get('/api/workshop/bench/heat-fit?temperature=95&unit=F&wax=house_blend')
+      expect(fit.status, JSON.stringify(fit.body)).toBe(200)
+      expect(fit.body.taperPerFootIn).toBe(0.5)
+      expect(fit.body.taperUnverified).toBe(false)
+      expect(fit.body.waxFormulas.map((wax: { id: string }) => wax.id)).toContain('house_blend')
+    }
+    finally {
+      expect((await maker.put(path, settings)).status).toBe(200)
+    }
+    expect((await maker.get(path)).body.settings).toEqual(settings)
+  })
+
+  it('is the maker\'s alone', async () => {
+    expect((await anonymous.get(path)).status).toBe(401)
+    expect((await anonymous.request(path, { method: 'PUT', body: {} })).status).toBe(401)
+  })
+})
