@@ -153,3 +153,48 @@ test('the maker changes the workshop figures: a bad one is named, a fraction is 
   await expect(page.getByText('Saved. The calculators')).toBeVisible()
   await expect(page.getByLabel('Mandrel taper, diameter per foot (in)')).toHaveValue('3/8')
 })
+
+test('a reaming and a shaving planned on the bench are recorded on a blank\'s log', async ({ page, baseURL }) => {
+  await page.setViewportSize({ width: 1280, height: 900 })
+  await signInAsMaker(page)
+  const post = async (path: string, data: object) => {
+    const answer = await page.request.post(path, { data, headers: { origin: baseURL! } })
+    expect(answer.status(), `${path}: ${await answer.text()}`).toBe(201)
+    return answer.json()
+  }
+  const batch = await post('/api/workshop/batches', { code: `BN-${Date.now().toString(36).toUpperCase()}`, formula: 'stearic acid 70 / paraffin 30', pourDate: '2026-11-20', volumetricExpansionPerK: 0.00075 })
+  const { codes: [code] } = await post('/api/workshop/blanks', { batchId: batch.id, format: 'two_minute', count: 1, diameterIn: '2.203', location: 'Bench' })
+
+  await page.goto('/workshop/bench')
+  await planReaming(page)
+  const reaming = page.getByRole('region', { name: 'Reaming plan' })
+  await reaming.getByText('Record this reaming on a blank\'s log').click()
+  const reamingRecord = reaming.getByRole('form', { name: 'Record the reaming on a blank' })
+  // The plan's first set and its expected overhang are offered as a start.
+  await expect(reamingRecord.getByLabel('Reamings done')).toHaveValue('4')
+  await expect(reamingRecord.getByLabel('Overhang read after (in)')).toHaveValue('7/16')
+  await reamingRecord.getByLabel('Blank code').fill('GW-00-0000')
+  await reamingRecord.getByRole('button', { name: 'Record on the blank' }).click()
+  await expect(reamingRecord.getByText('No blank GW-00-0000 in the register.')).toBeVisible()
+  await reamingRecord.getByLabel('Blank code').fill(code.toLowerCase())
+  await reamingRecord.getByRole('button', { name: 'Record on the blank' }).click()
+  await expect(reamingRecord.getByText(`Recorded on ${code}; the blank is now reamed.`)).toBeVisible()
+
+  const shaving = page.getByRole('region', { name: 'Shaving plan' })
+  await shaving.getByLabel('Largest diameter read').fill('2.203')
+  await shaving.getByLabel('Smallest diameter read').fill('2.199')
+  await shaving.getByRole('button', { name: 'Plan the shaving' }).click()
+  await shaving.getByText('Record this shaving on a blank\'s log').click()
+  const shavingRecord = shaving.getByRole('form', { name: 'Record the shaving on a blank' })
+  await shavingRecord.getByLabel('Blank code').fill(code)
+  await shavingRecord.getByLabel('Diameter read after (in)').fill('2.197')
+  await shavingRecord.getByRole('button', { name: 'Record on the blank' }).click()
+  await expect(shavingRecord.getByText(`Recorded on ${code}; the blank is now shaved.`)).toBeVisible()
+  await shaving.screenshot({ path: `${shots}/bench-record-on-blank.png` })
+  // A second press cannot log the same shaving twice.
+  await expect(shavingRecord.getByRole('button', { name: 'Recorded' })).toBeDisabled()
+
+  await shavingRecord.getByRole('link', { name: code }).click()
+  await expect(page.getByRole('heading', { level: 1 })).toContainText(code)
+  await expect(page.getByText('2.197 in').first()).toBeVisible()
+})
