@@ -18,9 +18,21 @@ const dbDir = resolve(process.env.NUXT_DB_DIR ?? '.data/db')
 const uploadsDir = resolve(process.env.NUXT_UPLOADS_DIR ?? '.data/uploads')
 const port = Number(process.env.PORT ?? 3000)
 
-const running = await fetch(`http://127.0.0.1:${port}/api/health`).then(r => r.ok, () => false)
+// The server leaves `<db dir>.owner` with its pid while it has the database open (server/utils/db.ts).
+function ownerPid() {
+  try {
+    const { pid } = JSON.parse(readFileSync(`${dbDir}.owner`, 'utf8'))
+    process.kill(pid, 0)
+    return pid
+  }
+  catch {
+    return null // no file, or its process is gone
+  }
+}
+const owner = ownerPid()
+const running = owner !== null || await fetch(`http://127.0.0.1:${port}/api/health`).then(r => r.ok, () => false)
 if (running) {
-  console.error(`The shop is running on port ${port}. Stop it first (Ctrl-C in its terminal): only one process may open the database.`)
+  console.error(`The shop is running${owner !== null ? ` (process ${owner})` : ` on port ${port}`}. Stop it first (Ctrl-C in its terminal): only one process may open the database.`)
   process.exit(1)
 }
 

@@ -1,4 +1,4 @@
-import { mkdirSync } from 'node:fs'
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs'
 import { PGlite } from '@electric-sql/pglite'
 import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core'
 import { drizzle as drizzlePglite } from 'drizzle-orm/pglite'
@@ -50,7 +50,14 @@ async function openEmbedded(): Promise<Database> {
   const db = drizzlePglite(client, { schema })
   await migratePglite(db, { migrationsFolder: String(config.migrationsDir) })
   embeddedClient = client
-  closeClient = () => client.close()
+  // Beside the data folder: which process owns it, so `npm run restore` refuses while it is open
+  // (whatever port the shop serves on). A stale file from a killed process names a dead pid.
+  const ownerFile = dataDir.startsWith('memory://') ? null : `${dataDir.replace(/\/+$/, '')}.owner`
+  if (ownerFile) writeFileSync(ownerFile, JSON.stringify({ pid: process.pid, startedAt: new Date().toISOString() }))
+  closeClient = async () => {
+    await client.close()
+    if (ownerFile) rmSync(ownerFile, { force: true })
+  }
   return db as unknown as Database
 }
 

@@ -1,4 +1,4 @@
-import { spawn, type ChildProcess } from 'node:child_process'
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
 import { mkdtempSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
@@ -199,6 +199,11 @@ describe.skipIf(!embedded)('crash safety of the embedded database', () => {
     await Promise.allSettled(burst)
     const file = /Backup written: (\S+)/.exec(said)?.[1]
     expect(file, said).toBeTruthy()
+
+    // While the shop has its database open, restore refuses, even asked about another port.
+    const refused = spawnSync(process.execPath, [resolve(rootDir, 'scripts/restore.mjs'), file!, '--yes'], { cwd: rootDir, env: { ...process.env, PORT: String(await freePort()), NUXT_DB_DIR: dataDir }, encoding: 'utf8' })
+    expect(refused.status, refused.stdout + refused.stderr).toBe(1)
+    expect(refused.stderr).toMatch(/The shop is running \(process \d+\)/)
 
     await kill()
     const restoredDb = join(dataDir, 'restored-db')
