@@ -113,7 +113,7 @@ export async function testCutThresholds(db?: Db) {
 }
 
 export const testCutFieldsSchema = z.object({
-  recorderId: z.coerce.number({ error: 'recorderId must be a number' }).int().positive('choose a recorder'),
+  recorderId: idField('recorderId', 'choose a recorder'),
   blankCode: z.string().trim().toUpperCase().max(40, 'blankCode is too long').optional().transform(code => code || undefined),
   notes: text('notes', 2000).default(''),
   rpm: z.coerce.number({ error: 'rpm must be a number' }).refine(rpm => [120, 144, 160].includes(rpm), 'rpm must be 120, 144 or 160').default(160),
@@ -179,10 +179,44 @@ export async function findRecorder(db: Db, id: number): Promise<Recorder> {
   return recorder
 }
 
-export async function findBlankIdByCode(db: Db, code: string): Promise<number> {
-  const [blank] = await db.select({ id: blanks.id }).from(blanks).where(eq(blanks.code, code))
+/**
+ * The blank a test cut is to be made on, checked against the life cycle (the `testCut` row of
+ * shared/utils/blankLifecycle.ts): only a fresh surface no open ticket holds. A refusal is a 409
+ * naming the blank's state, also put beside the form's blankCode field. With `lock` (inside the
+ * transaction that stores the cut) the row stays locked, so a ticket cannot reserve the blank
+ * between this check and the move to `cut`.
+ */
+export async function blankForTestCut(db: Db, code: string, lock = false): Promise<typeof blanks.$inferSelect> {
+  const found = db.select().from(blanks).where(eq(blanks.code, code))
+  const [blank] = lock ? await found.for('update').limit(1) : await found.limit(1)
   if (!blank) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `blankCode: no blank in the register has the code ${code}.`, data: { fields: { blankCode: 'no such blank' } } })
-  return blank.id
+  const holder = await blankHolderOf(db, blank.id)
+  const refusal = blankActionRefusal('testCut', blank.state, holder)
+  if (refusal) {
+    throw createError({
+      statusCode: 409,
+      statusMessage: 'Conflict',
+      message: `${blank.code} (${blankStateLabels[blank.state].toLowerCase()}): ${refusal}`,
+      data: { state: blank.state, action: 'testCut', fields: { blankCode: `${blankStateLabels[blank.state].toLowerCase()}: ${refusal}` } },
+    })
+  }
+  return blank
+}
+
+/**
+ * A test cut puts a groove on the blank's current surface: the blank goes to `cut` (so no ticket is
+ * offered it as a tested blank any more), and its history says which cut did it. A reshave gives it
+ * a fresh surface again.
+ */
+export async function markBlankTestCut(tx: Transaction, blank: typeof blanks.$inferSelect, cut: { id: number, recorderName: string }, byUserId: number) {
+  await tx.update(blanks).set({ state: 'cut', updatedAt: new Date() }).where(eq(blanks.id, blank.id))
+  const surface = blankCurrentSurface(blank.surfacesUsed)
+  await writeBlankLog(tx, blank.id, 'state', {
+    from: blank.state,
+    to: 'cut',
+    reason: `Test cut #${cut.id} with ${cut.recorderName} on surface ${surface}: the surface now carries a groove; reshave it for a fresh one.`,
+    testCutId: cut.id,
+  }, byUserId)
 }
 
 /** A recorder's test cuts, oldest first, for its chart and table. */

@@ -2,7 +2,8 @@ import { z } from 'zod'
 import { cylinderFormats, groovePitchMm, playingTimeMinutes, rotationFrequencyHz, standardBlankDimensions, surfaceSpeedInPerSec } from './cylinder'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
-import { heatFitShift, heatRisk } from './heat'
+import { fahrenheitToCelsius, heatFitShift, heatRisk } from './heat'
+import { idField } from './ids'
 import { lengthField } from './length'
 import { messageFitForFormat } from './messageFit'
 import { reamingPlan } from './reaming'
@@ -156,24 +157,73 @@ export function benchShaving(query: ShavingQuery, settings: EngineSettings = def
 
 const temperatureUnitField = z.enum(['C', 'F'], { error: 'unit must be C or F' })
 
+/**
+ * The wax comes from one of the shop's formulas (`wax`, the first when neither is given) or from one
+ * of the workshop's own poured batches (`batchId`), whose measured figures are then used.
+ */
 export const heatFitQuerySchema = z.object({
   temperature: numberInputField('temperature', { min: -40, max: 200 }),
   unit: temperatureUnitField.default('F'),
   wax: z.string().min(1, 'wax must name a wax formula').optional(),
+  batchId: idField('batchId', 'choose a wax batch').optional(),
   bore: lengthField('bore', { positive: true }).optional(),
+}).superRefine((query, ctx) => {
+  if (query.wax !== undefined && query.batchId !== undefined) {
+    ctx.addIssue({ code: 'custom', path: ['batchId'], message: 'choose a wax formula or a wax batch, not both' })
+  }
 })
 export type HeatFitQuery = z.output<typeof heatFitQuerySchema>
 
-export function benchHeatFit(query: HeatFitQuery, settings: EngineSettings = defaultEngineSettings) {
-  const shift = heatFitShift({ temperature: query.temperature, unit: query.unit, waxId: query.wax, boreDiameterIn: query.bore }, settings)
+/** A poured batch's own figures, as the heat-and-fit calculator uses them. */
+export interface HeatFitBatch {
+  id: number
+  code: string
+  formula: string
+  volumetricExpansionPerK: number
+  softeningPointC: number | null
+}
+
+/**
+ * How close to its softening point a batch may be warmed before the calculator warns: a shop's
+ * margin of safety, not a measured figure (common practice, no source). Wax loses its shape well
+ * before it melts, and the tested fit assumes the blank is rigid.
+ */
+export const SOFTENING_MARGIN_C = 10
+
+export function benchHeatFit(query: HeatFitQuery, settings: EngineSettings = defaultEngineSettings, batch?: HeatFitBatch) {
+  const shift = heatFitShift({
+    temperature: query.temperature,
+    unit: query.unit,
+    waxId: batch ? undefined : query.wax,
+    volumetricExpansionPerK: batch?.volumetricExpansionPerK,
+    boreDiameterIn: query.bore,
+  }, settings)
+  const notes = [...shift.notes]
+  let softening: { softeningPointC: number, marginC: number } | null = null
+  if (batch && batch.softeningPointC !== null) {
+    const marginC = batch.softeningPointC - fahrenheitToCelsius(shift.temperatureF)
+    softening = { softeningPointC: batch.softeningPointC, marginC: roundTo(marginC, 1) }
+    if (marginC <= 0) {
+      notes.unshift(`At this temperature batch ${batch.code} is at or past its softening point (${batch.softeningPointC} °C): the blank will lose its shape, and no fit holds.`)
+    }
+    else if (marginC <= SOFTENING_MARGIN_C) {
+      notes.unshift(`This is within ${roundTo(marginC, 1)} °C of batch ${batch.code}'s softening point (${batch.softeningPointC} °C): the wax may sag or take the mandrel's mark; keep it cooler.`)
+    }
+  }
   return {
     referenceTemperatureF: shift.referenceTemperatureF,
     deltaK: roundTo(shift.deltaK, 2),
+    volumetricExpansionPerK: shift.volumetricExpansionPerK,
     linearExpansionPerK: shift.linearExpansionPerK,
     boreGrowthIn: roundTo(shift.boreGrowthIn, 5),
     extraTravelIn: roundTo(shift.extraTravelIn, 4),
     taperUnverified: shift.taperUnverified,
-    notes: shift.notes,
+    /** Where the expansion coefficient came from. */
+    wax: batch
+      ? { source: 'batch' as const, batchId: batch.id, code: batch.code, formula: batch.formula }
+      : { source: 'formula' as const, id: query.wax ?? settings.fit.waxFormulas[0]?.id ?? null },
+    softening,
+    notes,
   }
 }
 

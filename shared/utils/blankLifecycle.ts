@@ -15,7 +15,8 @@ import type { CylinderFormat } from './cylinder'
  *   refit        shaved, tested_pass, tested_fail       reamed                   spent (+1) refused
  *   shave        reamed, shaved                         shaved                   —          —
  *   surfaceTest  shaved, tested_pass, tested_fail       tested_pass|tested_fail  —          refused
- *   reshave      shaved, tested_pass, tested_fail       shaved                   spent (+1) refused
+ *   testCut      shaved, tested_pass, tested_fail       cut                      —          refused
+ *   reshave      shaved, tested_pass, tested_fail, cut  shaved                   spent (+1) refused
  *   scrap        cast … tested_fail, reserved, cut      scrapped                 —          refused
  *   reserve      tested_pass                            reserved                 (tickets)
  *   release      reserved                               tested_pass              (tickets)
@@ -33,6 +34,11 @@ import type { CylinderFormat } from './cylinder'
  *    test of the current surface decides the state.
  *  - Nothing that changes a blank's surface or state goes through while an open ticket holds the
  *    blank: the ticket must let it go first, so a customer's cylinder never changes under the ticket.
+ *  - A test cut (a recorder's trial recording) made on a blank uses that blank's current surface:
+ *    the groove is there for good, so the blank goes to `cut` and is no longer a tested blank a
+ *    ticket could take. Only a blank with a fresh, unheld surface may take one (never one reserved
+ *    for a customer, already cut, shipped or scrapped). A reshave from `cut` (no open ticket
+ *    holding it: a test cut, or a cut a ticket rejected and let go) gives it a new surface.
  */
 
 export const blankStates = ['cast', 'reamed', 'shaved', 'tested_pass', 'tested_fail', 'reserved', 'cut', 'shipped', 'scrapped'] as const
@@ -55,7 +61,7 @@ export const blankFormatLabels: Record<CylinderFormat, string> = {
   four_minute: '4-minute',
 }
 
-export type BlankAction = 'ream' | 'refit' | 'shave' | 'surfaceTest' | 'reshave' | 'scrap' | 'reserve' | 'release' | 'cut' | 'ship'
+export type BlankAction = 'ream' | 'refit' | 'shave' | 'surfaceTest' | 'testCut' | 'reshave' | 'scrap' | 'reserve' | 'release' | 'cut' | 'ship'
 
 export interface BlankTransition {
   from: readonly BlankState[]
@@ -66,7 +72,7 @@ export interface BlankTransition {
   /** Refused while an open ticket holds the blank. */
   unheldOnly: boolean
   /** The part of the app that makes the move. */
-  by: 'register' | 'tickets' | 'dispatch'
+  by: 'register' | 'recorders' | 'tickets' | 'dispatch'
 }
 
 export const blankTransitions: Record<BlankAction, BlankTransition> = {
@@ -74,7 +80,8 @@ export const blankTransitions: Record<BlankAction, BlankTransition> = {
   refit: { from: ['shaved', 'tested_pass', 'tested_fail'], to: 'reamed', spendsSurface: true, unheldOnly: true, by: 'register' },
   shave: { from: ['reamed', 'shaved'], to: 'shaved', spendsSurface: false, unheldOnly: false, by: 'register' },
   surfaceTest: { from: ['shaved', 'tested_pass', 'tested_fail'], to: 'by_verdict', spendsSurface: false, unheldOnly: true, by: 'register' },
-  reshave: { from: ['shaved', 'tested_pass', 'tested_fail'], to: 'shaved', spendsSurface: true, unheldOnly: true, by: 'register' },
+  testCut: { from: ['shaved', 'tested_pass', 'tested_fail'], to: 'cut', spendsSurface: false, unheldOnly: true, by: 'recorders' },
+  reshave: { from: ['shaved', 'tested_pass', 'tested_fail', 'cut'], to: 'shaved', spendsSurface: true, unheldOnly: true, by: 'register' },
   scrap: { from: ['cast', 'reamed', 'shaved', 'tested_pass', 'tested_fail', 'reserved', 'cut'], to: 'scrapped', spendsSurface: false, unheldOnly: true, by: 'register' },
   reserve: { from: ['tested_pass'], to: 'reserved', spendsSurface: false, unheldOnly: false, by: 'tickets' },
   release: { from: ['reserved'], to: 'tested_pass', spendsSurface: false, unheldOnly: false, by: 'tickets' },
@@ -119,6 +126,14 @@ export function blankActionRefusal(action: BlankAction, state: BlankState, holde
       return state === 'cast' || state === 'reamed'
         ? `A surface test needs a shaved blank; this one is ${blankStateLabels[state].toLowerCase()}. Shave it first.`
         : `${finished(state)}: its surface is no longer tested in the register.`
+    case 'testCut':
+      if (state === 'cast' || state === 'reamed') return `A test cut needs a shaved surface; this blank is ${blankStateLabels[state].toLowerCase()}. Shave it first.`
+      if (state === 'reserved') {
+        return holder
+          ? `It is reserved for ticket #${holder.ticketId} (order ${holder.orderNumber}): its surface is kept for the customer's cylinder.`
+          : 'It is reserved for a ticket: its surface is kept for the customer\'s cylinder.'
+      }
+      return `${finished(state)}: its current surface already carries a cut. Reshave it for a fresh surface first.`
     case 'reshave':
       return state === 'cast' || state === 'reamed'
         ? 'There is no surface to reshave yet: record a shaving pass.'

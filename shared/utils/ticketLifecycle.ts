@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { idField } from './ids'
 
 /*
  * Production tickets: one per cylinder to make. The stages are the product's names (PRODUCT.md):
@@ -140,7 +141,7 @@ export function orderStateForTickets(stages: TicketStage[]): 'ready_to_pack' | '
 
 /** Recording the cut: the recorder used and when (now when left out); a test recording may come with it. */
 export const ticketCutSchema = z.object({
-  recorderId: z.coerce.number({ error: 'recorderId must be a number' }).int('recorderId must be a whole number').positive('choose the recorder used'),
+  recorderId: idField('recorderId', 'choose the recorder used'),
   cutAt: z.preprocess(value => (value === '' ? undefined : value), z.iso.datetime({ offset: true, error: 'cutAt must be a date and time' }).optional())
     .refine(value => value === undefined || Date.parse(value) <= Date.now() + 5 * 60_000, 'cutAt cannot be in the future'),
   notes: z.string({ error: 'notes must be text' }).trim().max(2000, 'notes is at most 2000 characters').default(''),

@@ -2,6 +2,7 @@ import { z } from 'zod'
 import { numberInputField } from './benchSchemas'
 import { blankCodePattern, blankStates } from './blankLifecycle'
 import { cylinderFormats } from './cylinder'
+import { idField, idParamsSchema } from './ids'
 import { lengthField } from './length'
 
 // Inputs of the wax-batch, blank-register and surface-test routes, shared with their forms. Every
@@ -40,7 +41,7 @@ export const waxBatchPatchSchema = waxBatchFields.partial()
   .refine(patch => Object.values(patch).some(value => value !== undefined), { message: 'change at least one field', path: ['body'] })
 export type WaxBatchPatchInput = z.input<typeof waxBatchPatchSchema>
 
-export const waxBatchIdParamsSchema = z.object({ id: wholeNumber('id', 1, 2_147_483_647) })
+export const waxBatchIdParamsSchema = idParamsSchema
 
 // ——— Blank register ———
 
@@ -48,7 +49,7 @@ export const waxBatchIdParamsSchema = z.object({ id: wholeNumber('id', 1, 2_147_
 export const BLANKS_PER_CREATE_MAX = 200
 
 export const blankCreateSchema = z.object({
-  batchId: wholeNumber('batchId', 1, 2_147_483_647),
+  batchId: idField('batchId', 'choose a wax batch'),
   format: z.enum(cylinderFormats, { error: 'format must be two_minute or four_minute' }),
   count: wholeNumber('count', 1, BLANKS_PER_CREATE_MAX).default(1),
   diameterIn: lengthField('diameterIn', { positive: true }).optional(),
@@ -121,8 +122,13 @@ export const blankShavingSchema = z.object({
 })
 export type BlankShavingInput = z.input<typeof blankShavingSchema>
 
-/** A new surface on a blank whose surface is spent; the measurements are optional. */
+/**
+ * A new surface on a blank whose surface is spent; the measurements are optional. `surface` is the
+ * surface the maker means to leave (the one the page showed as current): a repeated or late request
+ * finds the blank already on the next surface and is refused, so one click never spends two.
+ */
 export const blankReshaveSchema = z.object({
+  surface: wholeNumber('surface', 1, 1000),
   reason: workshopText('reason', 500).default(''),
   wheelDegrees: numberInputField('wheelDegrees', { positive: true, max: 360 }).optional(),
   passes: wholeNumber('passes', 1, 50).optional(),
@@ -159,7 +165,7 @@ export const surfaceTestPatchSchema = z.object({
 }).refine(patch => Object.values(patch).some(value => value !== undefined), { message: 'change listeningNotes, finalVerdict or overruleReason', path: ['body'] })
 export type SurfaceTestPatchInput = z.input<typeof surfaceTestPatchSchema>
 
-export const surfaceTestParamsSchema = blankCodeParamsSchema.extend({ id: wholeNumber('id', 1, 2_147_483_647) })
+export const surfaceTestParamsSchema = blankCodeParamsSchema.extend({ id: idField('id') })
 
 export const SURFACE_OVERRULE_REASON_REQUIRED = 'say why the computed verdict is overruled (what you heard); the reason is kept with the test'
 

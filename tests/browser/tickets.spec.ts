@@ -136,3 +136,39 @@ test('the maker takes a paid order from the board to dispatch: a tested blank, t
   await noSeriousAxe(page)
   expect(pageErrors).toEqual([])
 })
+
+test('the board marks a recut ticket with its reason, and the stage filter finds it', async ({ page }) => {
+  const pageErrors: string[] = []
+  page.on('pageerror', error => pageErrors.push(error.message))
+  await page.setViewportSize({ width: 1280, height: 900 })
+  await signInAsMaker(page)
+  const blankCode = await testedFourMinuteBlank(page.request)
+  const { recorders } = await api(page.request, 'GET', '/api/workshop/recorders')
+  const recorder = recorders.find((candidate: { inService: boolean }) => candidate.inService)
+    ?? await api(page.request, 'POST', '/api/workshop/recorders', { name: 'Recut Lathe', stylus: 'Sapphire, 0.003 in' })
+  const orderNumber = await paidMadeToOrder(page.request)
+  let ticketId = 0
+  await expect.poll(async () => {
+    ticketId = (await api(page.request, 'GET', `/api/workshop/tickets?q=${orderNumber}`)).tickets[0]?.id ?? 0
+    return ticketId
+  }).toBeGreaterThan(0)
+  await api(page.request, 'POST', `/api/workshop/tickets/${ticketId}/assign`, { blankCode })
+  await api(page.request, 'POST', `/api/workshop/tickets/${ticketId}/cut`, { recorderId: recorder.id })
+  await api(page.request, 'POST', `/api/workshop/tickets/${ticketId}/stage`, { to: 'recut', note: 'A thump on the third turn.' })
+
+  await page.goto('/workshop/tickets')
+  await page.getByLabel('Stage').selectOption('recut')
+  await expect(page).toHaveURL(/stage=recut/)
+  const card = page.getByTestId(`ticket-${ticketId}`)
+  await expect(card.getByTestId('recut-badge')).toHaveText('Recut')
+  await expect(card).toContainText('Why recut: A thump on the third turn.')
+  await expect(page.locator('article').filter({ hasNot: page.getByTestId('recut-badge') })).toHaveCount(0)
+  await expect(page.getByTestId('board-count')).toContainText('being recut')
+  await page.screenshot({ path: `${shots}/tickets-board-recut.png`, fullPage: true })
+  await noSeriousAxe(page)
+
+  await page.getByLabel('Stage').selectOption('queued')
+  await expect(page).toHaveURL(/stage=queued/)
+  await expect(page.getByTestId(`ticket-${ticketId}`)).toHaveCount(0)
+  expect(pageErrors).toEqual([])
+})

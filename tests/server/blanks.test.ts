@@ -243,7 +243,7 @@ describe('surface tests', () => {
   it('reshaves a failed surface: back to shaved with one more surface used, and the next test is of surface 2', async () => {
     const code = await shavedBlank()
     expect((await upload(maker, `/api/workshop/blanks/${code}/surface-tests`, { name: 'clicks.wav', bytes: clickyWav() })).body.finalVerdict).toBe('fail')
-    const reshave = await maker.post(`/api/workshop/blanks/${code}/reshave`, { reason: 'clicks', diameterAfterIn: '2.194', wheelDegrees: 45, passes: 1 })
+    const reshave = await maker.post(`/api/workshop/blanks/${code}/reshave`, { surface: 1, reason: 'clicks', diameterAfterIn: '2.194', wheelDegrees: 45, passes: 1 })
     expect(reshave.status).toBe(201)
     expect(reshave.body).toMatchObject({ state: 'shaved', surfacesUsed: 1 })
     const next = await upload(maker, `/api/workshop/blanks/${code}/surface-tests`, { name: 'quiet.wav', bytes: quietWav() })
@@ -254,19 +254,48 @@ describe('surface tests', () => {
     expect(dossier.body.reshaves[0]).toMatchObject({ surfaceBefore: 1, surfaceNow: 2, reason: 'clicks' })
   })
 
+  it('a reshave names the surface it leaves: a repeated or doubled request answers 409 and spends no second surface', async () => {
+    const code = await shavedBlank()
+    expect((await upload(maker, `/api/workshop/blanks/${code}/surface-tests`, { name: 'clicks.wav', bytes: clickyWav() })).body.finalVerdict).toBe('fail')
+    const unnamed = await maker.post(`/api/workshop/blanks/${code}/reshave`, { reason: 'clicks' })
+    expect(unnamed.status).toBe(400)
+    expect(unnamed.body.data.fields).toHaveProperty('surface')
+
+    const first = await maker.post(`/api/workshop/blanks/${code}/reshave`, { surface: 1, reason: 'clicks' })
+    expect(first.status).toBe(201)
+    expect(first.body).toMatchObject({ state: 'shaved', surfacesUsed: 1 })
+    // The retry of the same click (the blank is now shaved, from which a reshave is otherwise allowed).
+    const retry = await maker.post(`/api/workshop/blanks/${code}/reshave`, { surface: 1, reason: 'clicks' })
+    expect(retry.status).toBe(409)
+    expect(retry.body.message).toBe(`${code}: surface 1 is already spent; the blank is on surface 2 now (shaved). Nothing was changed.`)
+    const ahead = await maker.post(`/api/workshop/blanks/${code}/reshave`, { surface: 3 })
+    expect(ahead.status).toBe(409)
+    expect(ahead.body.data).toMatchObject({ currentSurface: 2 })
+    const dossier = await maker.get(`/api/workshop/blanks/${code}`)
+    expect(dossier.body.blank).toMatchObject({ state: 'shaved', surfacesUsed: 1, currentSurface: 2 })
+    expect(dossier.body.reshaves).toHaveLength(1)
+
+    // Two at once from the same page: the row lock queues them, and only one spends a surface.
+    const both = await Promise.all([1, 2].map(() => maker.post(`/api/workshop/blanks/${code}/reshave`, { surface: 2, reason: 'double click' })))
+    expect(both.map(answer => answer.status).sort()).toEqual([201, 409])
+    const after = await maker.get(`/api/workshop/blanks/${code}`)
+    expect(after.body.blank.surfacesUsed).toBe(2)
+    expect(after.body.reshaves).toHaveLength(2)
+  })
+
   it('answers life-cycle conflicts with 409 and a sentence', async () => {
     const [cast] = await newBlanks('two_minute')
     const early = await upload(maker, `/api/workshop/blanks/${cast}/surface-tests`, { name: 'quiet.wav', bytes: quietWav() })
     expect(early.status).toBe(409)
     expect(early.body.message).toMatch(/needs a shaved blank/)
-    const reshaveCast = await maker.post(`/api/workshop/blanks/${cast}/reshave`, {})
+    const reshaveCast = await maker.post(`/api/workshop/blanks/${cast}/reshave`, { surface: 1 })
     expect(reshaveCast.status).toBe(409)
 
     const noReason = await maker.post(`/api/workshop/blanks/${cast}/scrap`, {})
     expect(noReason.status).toBe(400)
     expect(noReason.body.data.fields).toHaveProperty('reason')
     expect((await maker.post(`/api/workshop/blanks/${cast}/scrap`, { reason: 'Cracked in the mould.' })).status).toBe(200)
-    const reshaveScrapped = await maker.post(`/api/workshop/blanks/${cast}/reshave`, {})
+    const reshaveScrapped = await maker.post(`/api/workshop/blanks/${cast}/reshave`, { surface: 1 })
     expect(reshaveScrapped.status).toBe(409)
     expect(reshaveScrapped.body.message).toMatch(/scrapped/)
     expect((await maker.post(`/api/workshop/blanks/${cast}/scrap`, { reason: 'again' })).status).toBe(409)
@@ -275,7 +304,7 @@ describe('surface tests', () => {
 
   it('refuses a reshave that would go under the shop\'s minimum diameter', async () => {
     const code = await shavedBlank()
-    const answer = await maker.post(`/api/workshop/blanks/${code}/reshave`, { diameterAfterIn: '2.05' })
+    const answer = await maker.post(`/api/workshop/blanks/${code}/reshave`, { surface: 1, diameterAfterIn: '2.05' })
     expect(answer.status).toBe(409)
     expect(answer.body.message).toMatch(/minimum diameter/)
   })
@@ -524,5 +553,50 @@ describe('surface-test limits: GET/PUT /api/workshop/settings/surface', () => {
       expect((await maker.put(path, before.body.thresholds)).status).toBe(200)
     }
     expect((await maker.get(path)).body.thresholds).toEqual(before.body.thresholds)
+  })
+})
+
+// ——— a batch's own figures in the heat-and-fit calculator (issue 6) ———
+
+describe('heat and fit from a wax batch: GET /api/workshop/bench/heat-fit?batchId=', () => {
+  it('uses the batch\'s own expansion coefficient and warns near its softening point', async () => {
+    // Batch T-26-01 was poured with 750×10⁻⁶ per K volumetric and a 62 °C softening point (the maker's figures).
+    const answer = await maker.get(`/api/workshop/bench/heat-fit?temperature=95&unit=F&bore=1.69&batchId=${batchId}`)
+    expect(answer.status, JSON.stringify(answer.body)).toBe(200)
+    expect(answer.body.wax).toMatchObject({ source: 'batch', batchId, code: 'T-26-01' })
+    expect(answer.body.volumetricExpansionPerK).toBe(0.00075)
+    // Linear ≈ volumetric ÷ 3 (engineering handbook tables): 250×10⁻⁶ per K, not the formulas' 270 or 197.
+    expect(answer.body.linearExpansionPerK).toBeCloseTo(250e-6, 9)
+    // 1.69 in × 250×10⁻⁶ × 20 °F × 5/9 = 0.004694 in (arithmetic).
+    expect(answer.body.boreGrowthIn).toBeCloseTo(1.69 * 250e-6 * (100 / 9), 5)
+    const byFormula = await maker.get('/api/workshop/bench/heat-fit?temperature=95&unit=F&bore=1.69&wax=stearic_acid')
+    expect(byFormula.body.wax).toMatchObject({ source: 'formula', id: 'stearic_acid' })
+    expect(byFormula.body.boreGrowthIn).not.toBeCloseTo(answer.body.boreGrowthIn, 5)
+    // 95 °F is 35 °C: 27 °C below the softening point, no warning.
+    expect(answer.body.softening).toEqual({ softeningPointC: 62, marginC: 27 })
+    expect(answer.body.notes.join(' ')).not.toMatch(/softening/)
+
+    const warm = await maker.get(`/api/workshop/bench/heat-fit?temperature=55&unit=C&batchId=${batchId}`)
+    expect(warm.body.softening).toEqual({ softeningPointC: 62, marginC: 7 })
+    expect(warm.body.notes[0]).toMatch(/within 7 °C of batch T-26-01's softening point \(62 °C\)/)
+    const hot = await maker.get(`/api/workshop/bench/heat-fit?temperature=65&unit=C&batchId=${batchId}`)
+    expect(hot.body.notes[0]).toMatch(/at or past its softening point/)
+  })
+
+  it('refuses a batch with a formula, an unknown batch and a malformed id, naming batchId; only a maker may ask', async () => {
+    const both = await maker.get(`/api/workshop/bench/heat-fit?temperature=95&wax=stearic_acid&batchId=${batchId}`)
+    expect(both.status).toBe(400)
+    expect(both.body.data.fields).toHaveProperty('batchId')
+    const unknown = await maker.get('/api/workshop/bench/heat-fit?temperature=95&batchId=999999')
+    expect(unknown.status).toBe(404)
+    expect(unknown.body.data.fields).toHaveProperty('batchId')
+    for (const bad of ['abc', '0', '1.5', '3000000000']) {
+      const answer = await maker.get(`/api/workshop/bench/heat-fit?temperature=95&batchId=${bad}`)
+      expect(answer.status, bad).toBe(400)
+      expect(answer.body.data.fields).toHaveProperty('batchId')
+    }
+    expect((await collector.get(`/api/workshop/bench/heat-fit?temperature=95&batchId=${batchId}`)).status).toBe(403)
+    expect((await shipper.get(`/api/workshop/bench/heat-fit?temperature=95&batchId=${batchId}`)).status).toBe(403)
+    expect((await new Client().get(`/api/workshop/bench/heat-fit?temperature=95&batchId=${batchId}`)).status).toBe(401)
   })
 })

@@ -312,6 +312,19 @@ describe('the ticket life cycle', () => {
     expect((await cut(ticket.id)).status).toBe(200)
     const events = (await maker.get(`/api/workshop/tickets/${ticket.id}`)).body.events
     expect(events.map((e: any) => e.to)).toEqual(['queued', 'blank_assigned', 'cut', 'to_dispatch', 'blank_assigned', 'blank_assigned', 'cut'])
+
+    // The board marks it as a recut, with the reason, and the stage filter finds it among the recuts.
+    const [onBoard] = await ticketsOf(placed.orderNumber)
+    expect(onBoard).toMatchObject({ id: ticket.id, stage: 'cut', recuts: 1, lastRecutNote: 'A scratch across the last turns.' })
+    const recuts = await maker.get(`/api/workshop/tickets?stage=recut&q=${placed.orderNumber}`)
+    expect(recuts.body.tickets.map((t: any) => t.id)).toEqual([ticket.id])
+    const allRecuts = await maker.get('/api/workshop/tickets?stage=recut')
+    expect(allRecuts.body.tickets.length).toBeGreaterThan(0)
+    expect(allRecuts.body.tickets.every((t: any) => t.recuts > 0)).toBe(true)
+    // A ticket cut once and never sent back carries no mark.
+    const plain = await maker.get('/api/workshop/tickets?stage=queued')
+    expect(plain.body.tickets.length).toBeGreaterThan(0)
+    expect(plain.body.tickets.every((t: any) => t.stage === 'queued' && t.recuts === 0 && t.lastRecutNote === null)).toBe(true)
     expect(events[4].note).toBe('Recut: A scratch across the last turns.')
     expect(events[5].note).toBe(`Blank changed from ${first} to ${second}.`)
   })
@@ -422,5 +435,127 @@ describe('the test certificate', () => {
     expect((await new Client().get(`/api/certificates/${ticket.id}?t=not-the-token`)).status).toBe(404)
     const shipper = await signedIn(account('shipper').email, account('shipper').password)
     expect((await shipper.get(`/api/certificates/${ticket.id}`)).status).toBe(404)
+  })
+})
+
+// ——— the board: stage filter and pages (issue 6) ———
+
+describe('the ticket board', () => {
+  it('filters by stage, refuses an unknown stage naming it, and pages with the total instead of cutting off', async () => {
+    const product = await madeToOrderProduct('two_minute')
+    const placed = await order(collector, [{ slug: product.slug, qty: 3 }])
+    const tickets = await waitFor(async () => {
+      const found = await ticketsOf(placed.orderNumber)
+      return found.length === 3 ? found : null
+    }, 10_000, 'three tickets')
+    const code = await testedBlank('two_minute', quietWav(71))
+    expect((await assign(tickets[0].id, code)).status).toBe(200)
+
+    const assigned = await maker.get(`/api/workshop/tickets?stage=blank_assigned&q=${placed.orderNumber}`)
+    expect(assigned.status).toBe(200)
+    expect(assigned.body.tickets.map((t: any) => t.id)).toEqual([tickets[0].id])
+    expect(assigned.body.total).toBe(1)
+    const queued = await maker.get(`/api/workshop/tickets?stage=queued&q=${placed.orderNumber}`)
+    expect(queued.body.tickets.map((t: any) => t.id).sort()).toEqual([tickets[1].id, tickets[2].id].sort())
+
+    const bad = await maker.get('/api/workshop/tickets?stage=polished')
+    expect(bad.status).toBe(400)
+    expect(bad.body.data.fields).toHaveProperty('stage')
+    expect((await maker.get('/api/workshop/tickets?pageSize=501')).body.data.fields).toHaveProperty('pageSize')
+
+    // Two a page: the first page says 2 of 3, the second holds the last one, and together they are all three.
+    const first = await maker.get(`/api/workshop/tickets?q=${placed.orderNumber}&pageSize=2`)
+    expect(first.body).toMatchObject({ total: 3, page: 1, pageSize: 2 })
+    expect(first.body.tickets).toHaveLength(2)
+    const second = await maker.get(`/api/workshop/tickets?q=${placed.orderNumber}&pageSize=2&page=2`)
+    expect(second.body).toMatchObject({ total: 3, page: 2 })
+    expect(second.body.tickets).toHaveLength(1)
+    expect([...first.body.tickets, ...second.body.tickets].map((t: any) => t.id).sort()).toEqual(tickets.map(t => t.id).sort())
+
+    // The whole board: its total counts every ticket, even beyond one page.
+    const whole = await maker.get('/api/workshop/tickets?pageSize=1')
+    expect(whole.body.tickets).toHaveLength(1)
+    expect(whole.body.total).toBeGreaterThan(3)
+  })
+})
+
+// ——— test cuts on a blank (issue 6) ———
+
+describe('a test cut on a blank', () => {
+  const testCut = (blankCode: string, seed = 81) => upload(maker, '/api/workshop/test-cuts', { name: 'cut.wav', bytes: makeSurfaceWav({ seconds: 5, sampleRate: 22_050, levelDbfs: -55, seed }) }, { recorderId: String(recorderId), blankCode })
+  const blankOf = async (code: string) => (await maker.get(`/api/workshop/blanks/${code}`)).body
+  const cutsOfRecorder = async () => (await maker.get(`/api/workshop/test-cuts?recorderId=${recorderId}&limit=200`)).body.cuts.length as number
+
+  it('uses the surface of a tested blank: the blank goes to cut, its history says which cut, and no ticket is offered it', async () => {
+    const product = await madeToOrderProduct('four_minute')
+    const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
+    const [ticket] = await waitFor(async () => {
+      const found = await ticketsOf(placed.orderNumber)
+      return found.length === 1 ? found : null
+    }, 10_000, 'the ticket')
+    const code = await testedBlank('four_minute', quietWav(82))
+    expect((await maker.get(`/api/workshop/tickets/${ticket.id}/blanks?q=${code}`)).body.blanks.map((b: any) => b.code)).toEqual([code])
+
+    const made = await testCut(code)
+    expect(made.status, JSON.stringify(made.body)).toBe(201)
+    expect(made.body).toMatchObject({ blankCode: code, blankState: 'cut' })
+    const dossier = await blankOf(code)
+    expect(dossier.blank).toMatchObject({ state: 'cut', surfacesUsed: 0 })
+    expect(dossier.testCuts.map((c: any) => c.id)).toEqual([made.body.id])
+    expect(dossier.history.at(-1)).toMatchObject({ kind: 'state', by: account('maker').name, data: { from: 'tested_pass', to: 'cut', testCutId: made.body.id } })
+    expect(dossier.history.at(-1).data.reason).toMatch(new RegExp(`^Test cut #${made.body.id} with Test Lathe on surface 1`))
+
+    expect((await maker.get(`/api/workshop/tickets/${ticket.id}/blanks?q=${code}`)).body.blanks).toEqual([])
+    const refused = await assign(ticket.id, code)
+    expect(refused.status).toBe(409)
+    expect(refused.body.message).toMatch(/is cut: only a blank whose current surface passed its test/)
+
+    // A second cut on the same surface is refused; a reshave gives a fresh surface, which takes one again.
+    const before = await cutsOfRecorder()
+    const again = await testCut(code, 83)
+    expect(again.status).toBe(409)
+    expect(again.body.message).toMatch(new RegExp(`^${code} \\(cut\\): .*already carries a cut`))
+    expect(again.body.data.fields).toHaveProperty('blankCode')
+    expect(await cutsOfRecorder()).toBe(before)
+    const reshaved = await maker.post(`/api/workshop/blanks/${code}/reshave`, { surface: 1, reason: 'test groove' })
+    expect(reshaved.status, JSON.stringify(reshaved.body)).toBe(201)
+    expect(reshaved.body).toMatchObject({ state: 'shaved', surfacesUsed: 1 })
+    expect((await testCut(code, 84)).status).toBe(201)
+    expect((await blankOf(code)).blank).toMatchObject({ state: 'cut', surfacesUsed: 1 })
+  })
+
+  it('refuses a blank reserved for a customer\'s ticket, a cast and a scrapped one, naming the state; nothing is stored or changed', async () => {
+    const product = await madeToOrderProduct('four_minute')
+    const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
+    const [ticket] = await waitFor(async () => {
+      const found = await ticketsOf(placed.orderNumber)
+      return found.length === 1 ? found : null
+    }, 10_000, 'the ticket')
+    const reserved = await testedBlank('four_minute', quietWav(85))
+    expect((await assign(ticket.id, reserved)).status).toBe(200)
+    const created = await maker.post('/api/workshop/blanks', { batchId, format: 'four_minute', count: 2, diameterIn: '2.206' })
+    const [cast, scrapped] = created.body.codes as string[]
+    expect((await maker.post(`/api/workshop/blanks/${scrapped}/scrap`, { reason: 'Cracked in the mould.' })).status).toBe(200)
+
+    const before = await cutsOfRecorder()
+    const cases: [string, string, RegExp][] = [
+      [reserved!, 'reserved', new RegExp(`reserved for ticket #${ticket.id} \\(order ${placed.orderNumber}\\)`)],
+      [cast!, 'cast', /needs a shaved surface; this blank is cast/],
+      [scrapped!, 'scrapped', /is scrapped/],
+    ]
+    for (const [code, state, message] of cases) {
+      const answer = await testCut(code)
+      expect(answer.status, `${state}: ${JSON.stringify(answer.body)}`).toBe(409)
+      expect(answer.body.message).toMatch(new RegExp(`^${code} \\(${state}\\): `))
+      expect(answer.body.message).toMatch(message)
+      expect(answer.body.data).toMatchObject({ state, action: 'testCut' })
+      expect((await blankOf(code)).blank.state).toBe(state)
+    }
+    expect(await cutsOfRecorder()).toBe(before)
+    expect((await blankOf(reserved!)).holder).toMatchObject({ ticketId: ticket.id })
+
+    const missing = await testCut('GW-99-9999')
+    expect(missing.status).toBe(404)
+    expect(missing.body.data.fields).toHaveProperty('blankCode')
   })
 })

@@ -1,12 +1,11 @@
 import { z } from 'zod'
 
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int().positive() })
 const querySchema = z.object({ t: z.string().max(100).optional() })
 
 // The order's owner, the maker, or a guest with the order's signed link; to anyone else (and before
 // the cut) the certificate does not exist.
 export default defineEventHandler(async (event) => {
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const { t } = queryWith(event, querySchema)
   const user = await currentUser(event)
   const found = await ticketCertificate(await useDB(), id)

@@ -1,11 +1,7 @@
-import { z } from 'zod'
-
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int().positive() })
-
 /** One recorder, its place in the ranking, and its test cuts over time (oldest first, for the chart). */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const db = await useDB()
   const recorder = await findRecorder(db, id).catch(() => {
     throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such recorder.' })

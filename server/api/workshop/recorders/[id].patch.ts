@@ -1,12 +1,9 @@
 import { eq } from 'drizzle-orm'
-import { z } from 'zod'
 import { recorders } from '../../../db/schema'
-
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int().positive() })
 
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const input = await readBodyWith(event, recorderPatchSchema)
   const db = await useDB()
   try {

@@ -1,13 +1,10 @@
 import { eq } from 'drizzle-orm'
-import { z } from 'zod'
 import { blanks, recorders, testCuts } from '../../../db/schema'
-
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int().positive() })
 
 /** One test cut with the audio engine's full answer and its recording. */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const db = await useDB()
   const [row] = await db.select({ cut: testCuts, recorderName: recorders.name, blankCode: blanks.code }).from(testCuts)
     .innerJoin(recorders, eq(recorders.id, testCuts.recorderId))

@@ -3,7 +3,7 @@ import { z } from 'zod'
 import { blanks, recorders, testCuts } from '../../../db/schema'
 
 const querySchema = z.object({
-  recorderId: z.coerce.number({ error: 'recorderId must be a number' }).int().positive().optional(),
+  recorderId: idField('recorderId').optional(),
   limit: z.coerce.number({ error: 'limit must be a number' }).int().min(1).max(200, 'limit is at most 200').default(50),
 })
 

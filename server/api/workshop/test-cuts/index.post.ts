@@ -1,6 +1,8 @@
 /**
  * A test cut: a short recording cut with one recorder (multipart: `file`, `recorderId`, and
  * optionally `blankCode`, `notes`, `rpm`, `cutAt`), analysed like a surface test and kept with its notes.
+ * Made on a named blank, it uses that blank's current surface: only a shaved or tested blank no open
+ * ticket holds may take one, and the blank goes to `cut` (see `blankForTestCut`).
  */
 export default defineEventHandler(async (event) => {
   const maker = await requireRole(event, 'maker')
@@ -14,18 +16,25 @@ export default defineEventHandler(async (event) => {
   const input = parsed.data
   const db = await useDB()
   const recorder = await findRecorder(db, input.recorderId)
-  const blankId = input.blankCode ? await findBlankIdByCode(db, input.blankCode) : null
+  // Checked before the analysis too, so a refused blank costs no work; the locked check below decides.
+  if (input.blankCode) await blankForTestCut(db, input.blankCode)
   const analysis = analyseTestCut(file.bytes, input.rpm, await testCutThresholds(db))
-  const cut = await db.transaction(tx => storeTestCut(tx, {
-    bytes: file.bytes, name: file.name, analysis, recorderId: recorder.id, blankId, notes: input.notes,
-    cutAt: input.cutAt ? new Date(input.cutAt) : undefined, userId: maker.id,
-  }))
+  const cut = await db.transaction(async (tx) => {
+    const blank = input.blankCode ? await blankForTestCut(tx, input.blankCode, true) : null
+    const stored = await storeTestCut(tx, {
+      bytes: file.bytes, name: file.name, analysis, recorderId: recorder.id, blankId: blank?.id ?? null, notes: input.notes,
+      cutAt: input.cutAt ? new Date(input.cutAt) : undefined, userId: maker.id,
+    })
+    if (blank) await markBlankTestCut(tx, blank, { id: stored.id, recorderName: recorder.name }, maker.id)
+    return stored
+  })
   setResponseStatus(event, 201)
   return {
     id: cut.id,
     recorderId: recorder.id,
     recorderName: recorder.name,
     blankCode: input.blankCode ?? null,
+    blankState: input.blankCode ? 'cut' as const : null,
     cutAt: cut.cutAt,
     aWeightedDbfs: cut.aWeightedDbfs,
     clicksPerMinute: cut.clicksPerMinute,

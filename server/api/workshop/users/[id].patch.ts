@@ -1,12 +1,9 @@
 import { and, count, eq, ne, sql } from 'drizzle-orm'
-import { z } from 'zod'
 import { users } from '../../../db/schema'
-
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int().positive('id must be a positive number') })
 
 export default defineEventHandler(async (event) => {
   const maker = await requireRole(event, 'maker')
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const { role } = await readBodyWith(event, roleChangeSchema)
   const db = await useDB()
   const updated = await db.transaction(async (tx) => {

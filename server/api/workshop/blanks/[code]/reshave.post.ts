@@ -1,6 +1,8 @@
 /**
  * A new surface: the blank goes back to `shaved` with one more surface used. Taken from a failed
- * surface, or from a shaved or passed one no ticket holds; refused below the shop's minimum diameter.
+ * surface, or from a shaved, passed or cut one no ticket holds; refused below the shop's minimum
+ * diameter. The request names the surface it leaves (`surface`); when the blank is no longer on it
+ * (a double click, a retry after a lost answer, another maker first) the answer is 409 and nothing changes.
  */
 export default defineEventHandler(async (event) => {
   const maker = await requireRole(event, 'maker')
@@ -10,6 +12,17 @@ export default defineEventHandler(async (event) => {
   const { minimumDiameterIn, depthPerSurfaceIn } = (await getSetting('engine', db)).shaving
   const result = await db.transaction(async (tx) => {
     const blank = await lockBlankByCode(tx, code)
+    const current = blankCurrentSurface(blank.surfacesUsed)
+    if (input.surface !== current) {
+      throw createError({
+        statusCode: 409,
+        statusMessage: 'Conflict',
+        message: input.surface < current
+          ? `${code}: surface ${input.surface} is already spent; the blank is on surface ${current} now (${blankStateLabels[blank.state].toLowerCase()}). Nothing was changed.`
+          : `${code}: the blank is on surface ${current}, not ${input.surface}. Nothing was changed.`,
+        data: { state: blank.state, currentSurface: current },
+      })
+    }
     await assertBlankAction(tx, blank, 'reshave')
     const tooThin = (what: string) => createError({ statusCode: 409, statusMessage: 'Conflict', message: `${code}: ${what} under the shop's minimum diameter of ${formatInches(minimumDiameterIn)} in: scrap the blank instead of reshaving it.` })
     if (input.diameterAfterIn !== undefined) {
@@ -19,7 +32,7 @@ export default defineEventHandler(async (event) => {
     else if (blankSurfacesLeft(blank.diameterIn, minimumDiameterIn, depthPerSurfaceIn).surfacesLeft === 0) {
       throw tooThin(`another surface would take it`)
     }
-    const surfaceBefore = blankCurrentSurface(blank.surfacesUsed)
+    const surfaceBefore = current
     const data: BlankReshaveLogData = {
       fromState: blank.state,
       surfaceBefore,

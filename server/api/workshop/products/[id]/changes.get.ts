@@ -1,13 +1,10 @@
 import { desc, eq } from 'drizzle-orm'
-import { z } from 'zod'
 import { productChanges, products, users } from '../../../../db/schema'
-
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int('id must be a whole number').positive('id must be a positive number') })
 
 /** The product's change log, newest first: who changed price, stock or visibility, when, from what to what. */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const db = await useDB()
   const [product] = await db.select({ id: products.id }).from(products).where(eq(products.id, id))
   if (!product) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such product in the catalogue.' })

@@ -1,8 +1,5 @@
 import { and, eq, ne } from 'drizzle-orm'
-import { z } from 'zod'
 import { productChanges, products } from '../../../../db/schema'
-
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int('id must be a whole number').positive('id must be a positive number') })
 
 /**
  * Edits a product. Price, stock and visibility changes are logged (who, when, old → new) in the same
@@ -11,7 +8,7 @@ const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a numbe
  */
 export default defineEventHandler(async (event) => {
   const maker = await requireRole(event, 'maker')
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const { stockSeen, ...changes } = await readBodyWith(event, productPatchSchema)
   const db = await useDB()
   return await db.transaction(async (tx) => {

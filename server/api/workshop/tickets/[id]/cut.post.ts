@@ -1,8 +1,5 @@
 import { eq } from 'drizzle-orm'
-import { z } from 'zod'
 import { orderItems, products, tickets } from '../../../../db/schema'
-
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int().positive() })
 
 /**
  * Records the cut: `{ recorderId, cutAt?, notes? }` as JSON, or the same fields as multipart with the
@@ -10,7 +7,7 @@ const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a numbe
  */
 export default defineEventHandler(async (event) => {
   const maker = await requireRole(event, 'maker')
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const multipart = /^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')
   const upload = multipart ? await readTestCutUpload(event) : null
   const parsed = ticketCutSchema.safeParse(upload ? upload.fields : await readBody(event).catch(() => null) ?? {})

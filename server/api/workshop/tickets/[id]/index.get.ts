@@ -1,13 +1,10 @@
 import { eq } from 'drizzle-orm'
-import { z } from 'zod'
 import { blanks, orderItems, orders, recorders, tickets, waxBatches } from '../../../../db/schema'
-
-const paramsSchema = z.object({ id: z.coerce.number({ error: 'id must be a number' }).int().positive() })
 
 /** One ticket: its order and item, its blank with the test that makes it fit, the recorder, the log and the moves open. */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')
-  const { id } = paramsWith(event, paramsSchema)
+  const { id } = paramsWith(event, idParamsSchema)
   const db = await useDB()
   const [row] = await db.select({ ticket: tickets, order: orders, item: orderItems }).from(tickets)
     .innerJoin(orders, eq(orders.id, tickets.orderId))
