@@ -198,3 +198,17 @@ test('a reaming and a shaving planned on the bench are recorded on a blank\'s lo
   await expect(page.getByRole('heading', { level: 1 })).toContainText(code)
   await expect(page.getByText('2.197 in').first()).toBeVisible()
 })
+
+test('heat and fit from a poured batch brings its own expansion and warns near its softening point', async ({ page }) => {
+  await page.setViewportSize({ width: 1280, height: 900 })
+  await signInAsMaker(page)
+  await page.goto('/workshop/bench')
+  const card = page.getByRole('region', { name: 'Heat and fit' })
+  await card.getByLabel('Blank temperature').fill('45')
+  await card.getByLabel('Unit').selectOption('C')
+  await card.getByLabel('Wax', { exact: true }).selectOption({ label: 'WB-26-03 · paraffin 55 / stearic acid 35 / beeswax 10' })
+  await card.getByRole('button', { name: 'Work out the shift' }).click()
+  // The demo batch WB-26-03 (invented): 660 × 10⁻⁶ per K, softening at 52 °C, so 45 °C is 7 °C short of it.
+  await expect(card.getByTestId('heat-fit-wax')).toContainText('Expansion of batch WB-26-03: 660 × 10⁻⁶ per K')
+  await expect(card).toContainText('within 7 °C of batch WB-26-03\'s softening point (52 °C)')
+})
