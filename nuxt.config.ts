@@ -47,8 +47,8 @@ export default defineNuxtConfig({
     public: {
       shopName: 'Groovewright demo workshop',
       siteUrl: 'http://localhost:3000',
-      // Only with a real key is the payment service's own script loaded in the browser.
-      stripePublishableKey: '',
+      // No payment script runs in the browser: checkout redirects to the hosted page's own address
+      // (the session's `url`), so no publishable key is needed, and in fake mode nothing outside loads.
     },
   },
   compatibilityDate: '2026-11-01',

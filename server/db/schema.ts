@@ -162,6 +162,10 @@ export const orders = pgTable('orders', {
   totalMinor: integer('total_minor').notNull(),
   refundedMinor: integer('refunded_minor').notNull().default(0),
   checkoutSessionId: text('checkout_session_id').unique(),
+  // A key the customer's browser makes for one press of "Go to payment": a retried or doubled request
+  // with the same key finds this order instead of holding the stock a second time. Cleared when the
+  // order is cancelled, so a retry after a failure may check out afresh.
+  checkoutKey: text('checkout_key').unique(),
   paymentIntentId: text('payment_intent_id'),
   reservationExpiresAt: timestamp('reservation_expires_at', { withTimezone: true }),
   // Stock of this order's items has been given back (expiry, failure or a restocking refund); set once.
@@ -220,12 +224,28 @@ export const refunds = pgTable('refunds', {
   providerRefundId: text('provider_refund_id').unique(),
   amountMinor: integer('amount_minor').notNull(),
   reason: text('reason').notNull(),
+  // Whether this refund puts anything back on sale (the items and counts are in refund_items).
   restock: boolean('restock').notNull().default(false),
   status: text('status').notNull().default('requested'),
   createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
 }, table => [
   check('refunds_amount_positive', sql`${table.amountMinor} > 0`),
+])
+
+/**
+ * What one refund puts back on sale, item by item. Written with the refund, applied (stock added) once,
+ * when the payment service confirms the refund; a refused refund is deleted and takes these rows with it.
+ */
+export const refundItems = pgTable('refund_items', {
+  id: serial('id').primaryKey(),
+  refundId: integer('refund_id').notNull().references(() => refunds.id, { onDelete: 'cascade' }),
+  orderItemId: integer('order_item_id').notNull().references(() => orderItems.id, { onDelete: 'cascade' }),
+  quantity: integer('quantity').notNull(),
+}, table => [
+  uniqueIndex('refund_items_refund_item').on(table.refundId, table.orderItemId),
+  index('refund_items_order_item').on(table.orderItemId),
+  check('refund_items_quantity_positive', sql`${table.quantity} > 0`),
 ])
 
 // ——— Workshop ———

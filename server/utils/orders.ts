@@ -1,6 +1,6 @@
 import { createHmac, timingSafeEqual } from 'node:crypto'
 import { and, eq, sql } from 'drizzle-orm'
-import { orderEvents, orderItems, orders, products } from '../db/schema'
+import { orderEvents, orderItems, orders, products, refundItems } from '../db/schema'
 import type { Database, Transaction } from './db'
 
 export type Order = typeof orders.$inferSelect
@@ -50,11 +50,69 @@ export async function returnStock(tx: Database | Transaction, orderId: number) {
   return true
 }
 
-/** An unpaid order whose payment failed or expired: cancelled, and its stock is for sale again. */
-export async function releaseReservation(tx: Database | Transaction, orderId: number, note: string) {
-  const cancelled = await moveOrder(tx, orderId, ['awaiting_payment'], 'cancelled', {}, note)
+/**
+ * An unpaid order whose payment failed or expired (or that was given up): cancelled, and its stock is
+ * for sale again. Its checkout key is let go, so the same browser may check out afresh.
+ */
+export async function releaseReservation(tx: Database | Transaction, orderId: number, note: string, actorUserId?: number) {
+  const cancelled = await moveOrder(tx, orderId, ['awaiting_payment'], 'cancelled', { checkoutKey: null }, note, actorUserId)
   if (cancelled) await returnStock(tx, orderId)
   return cancelled
+}
+
+/**
+ * Cancels an unpaid order on request (the workshop, or the customer giving up on the payment page).
+ * The payment page is closed first, so nobody can pay for an order whose stock is already back on sale.
+ * Safe to call twice at once and against the expiry event that closing the page sends: the move is
+ * conditional and the stock goes back at most once (`returnStock`). Returns the order's state after.
+ */
+export async function cancelUnpaidOrder(order: Order, note: string, actorUserId?: number): Promise<{ number: string, status: OrderStatusValue }> {
+  const db = await useDB()
+  if (order.status === 'cancelled') return { number: order.number, status: order.status }
+  if (order.status !== 'awaiting_payment') {
+    throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `Order ${order.number} is already ${order.status.replace(/_/g, ' ')}; it cannot be cancelled now.`, data: { status: order.status } })
+  }
+  if (order.checkoutSessionId) {
+    const closed = await useStripe().checkout.sessions.expire(order.checkoutSessionId).then(() => true, () => false)
+    if (!closed) {
+      const session = await useStripe().checkout.sessions.retrieve(order.checkoutSessionId).catch(() => null)
+      if (session?.status === 'complete') throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `Order ${order.number} has just been paid; it will show as paid in a moment.`, data: { status: 'paid' } })
+      if (session?.status !== 'expired') throw createError({ statusCode: 502, statusMessage: 'Payment service error', message: 'The payment page could not be closed, so the order was not cancelled; try again in a minute.' })
+    }
+  }
+  const cancelled = await db.transaction(tx => releaseReservation(tx, order.id, note, actorUserId))
+  if (cancelled) return { number: cancelled.number, status: cancelled.status }
+  // Closing the page sends its own expiry event, which may have cancelled the order first.
+  const [now] = await db.select({ number: orders.number, status: orders.status }).from(orders).where(eq(orders.id, order.id))
+  if (now?.status === 'cancelled') return now
+  throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'The order changed meanwhile (perhaps it was just paid); reload it.', data: { status: now?.status } })
+}
+
+/**
+ * Puts the items a confirmed refund chose back on sale. Called once per refund: only from the
+ * conditional move of the refund to `succeeded`, so repeated or late events add nothing.
+ */
+export async function restockRefund(tx: Database | Transaction, refundId: number) {
+  const rows = await tx.select({ productId: orderItems.productId, quantity: refundItems.quantity })
+    .from(refundItems).innerJoin(orderItems, eq(orderItems.id, refundItems.orderItemId))
+    .where(eq(refundItems.refundId, refundId)).orderBy(orderItems.productId)
+  for (const row of rows) {
+    if (row.productId) await tx.update(products).set({ stock: sql`${products.stock} + ${row.quantity}` }).where(eq(products.id, row.productId))
+  }
+  return rows.length
+}
+
+/** An item the maker may put back on sale: a stock item whose product still exists (not cut to order). */
+export function restockableItem(item: typeof orderItems.$inferSelect): boolean {
+  return item.productId !== null && !item.madeToOrder && item.kind !== 'custom'
+}
+
+/** Per order item, how many are already back on sale or asked to go back by a refund not yet confirmed. */
+export async function returnedCounts(db: Database | Transaction, orderId: number): Promise<Map<number, number>> {
+  const rows = await db.select({ orderItemId: refundItems.orderItemId, quantity: sql<number>`sum(${refundItems.quantity})::int` })
+    .from(refundItems).innerJoin(orderItems, eq(orderItems.id, refundItems.orderItemId))
+    .where(eq(orderItems.orderId, orderId)).groupBy(refundItems.orderItemId)
+  return new Map(rows.map(row => [row.orderItemId, Number(row.quantity)]))
 }
 
 class NotAllInStock extends Error {}
@@ -118,9 +176,11 @@ export async function queueOrderConfirmation(tx: Database | Transaction, orderId
 /**
  * Opens the hosted payment page for a freshly written order. The idempotency key makes a retried call
  * return the same session. If the payment service cannot be reached, the order is cancelled and its
- * stock given back at once, and the customer is told that nothing was charged.
+ * stock given back at once, and the customer is told that nothing was charged. A replay for an order
+ * another request is still opening passes `releaseOnFailure: false`: its failure must not cancel an
+ * order whose page the first request may be opening successfully.
  */
-export async function createCheckoutSession(order: Order, lines: { title: string, qty: number, unitPriceMinor: number }[]) {
+export async function createCheckoutSession(order: Order, lines: { title: string, qty: number, unitPriceMinor: number }[], options: { releaseOnFailure?: boolean } = {}) {
   const site = String(useRuntimeConfig().siteUrl)
   const token = orderAccessToken(order.number)
   const stripe = useStripe()
@@ -139,15 +199,20 @@ export async function createCheckoutSession(order: Order, lines: { title: string
         quantity: line.qty,
         price_data: { currency: order.currency.toLowerCase(), unit_amount: line.unitPriceMinor, product_data: { name: line.title } },
       })),
-      expires_at: Math.floor((order.reservationExpiresAt ?? new Date(Date.now() + 30 * 60_000)).getTime() / 1000) + 60,
+      expires_at: sessionExpiresAt(order),
       success_url: `${site}/checkout/done?order=${order.number}&t=${token}`,
-      cancel_url: `${site}/cart?cancelled=${order.number}`,
+      // The signed token lets the cart page give the order up on the customer's behalf (guests too).
+      cancel_url: `${site}/cart?cancelled=${order.number}&t=${token}`,
     }, { idempotencyKey: `checkout-${order.number}` })
     const db = await useDB()
     await db.update(orders).set({ checkoutSessionId: session.id }).where(eq(orders.id, order.id))
     return session
   }
   catch (error) {
+    if (options.releaseOnFailure === false) {
+      console.error('[checkout] session replay failed:', error instanceof Error ? error.message : error)
+      throw createError({ statusCode: 409, statusMessage: 'Checkout in progress', message: 'This checkout is still being prepared; wait a moment and press the button again.' })
+    }
     const db = await useDB()
     await db.transaction(tx => releaseReservation(tx, order.id, 'The payment service could not be reached.'))
     console.error('[checkout] session creation failed:', error instanceof Error ? error.message : error)

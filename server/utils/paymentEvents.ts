@@ -91,7 +91,7 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
           heading: 'Your payment did not go through',
           paragraphs: [
             `The card payment for order ${order.number} was declined${intent.last_payment_error?.message ? ` (${intent.last_payment_error.message})` : ''}. Nothing was charged.`,
-            'You can try again, with the same or another card, until the hold on your cylinders runs out (30 minutes after checkout); after that they go back on sale and your cart is still in your browser.',
+            `You can try again, with the same or another card, until the hold on your cylinders runs out (${holdText(checkoutHoldMinutes())} after checkout); after that they go back on sale and your cart is still in your browser.`,
           ],
           action: { label: 'Back to your cart', url: `${useRuntimeConfig().siteUrl}/cart` },
         },
@@ -118,8 +118,9 @@ async function applyRefunds(tx: Transaction, order: typeof orders.$inferSelect, 
     const match = Number.isInteger(localId) && localId > 0 ? eq(refunds.id, localId) : eq(refunds.providerRefundId, providerRefund.id)
     const [settled] = await tx.update(refunds).set({ status: 'succeeded', providerRefundId: providerRefund.id })
       .where(and(match, eq(refunds.orderId, order.id), sql`${refunds.status} <> 'succeeded'`)).returning()
-    // The order's stock goes back on sale at most once, however many refunds ask for it.
-    if (settled?.restock) await returnStock(tx, order.id)
+    // The items this refund chose go back on sale here, once: only the event that moved the refund to
+    // `succeeded` gets a row back, so a repeated or late event restocks nothing.
+    if (settled?.restock) await restockRefund(tx, settled.id)
     if (settled) {
       await queueMail(tx, {
         to: order.email,

@@ -64,6 +64,20 @@ export function fileLabel(clientName: string | undefined, fallback: string): str
   return cleaned.slice(-120) || fallback
 }
 
+/**
+ * A browser sends a file's bare name; a name with a path in it ("../", a slash or a backslash) or control characters
+ * comes from a hand-made request, so it is refused outright rather than quietly relabelled. (The name is
+ * never used as a path either way: files are stored under generated ids.)
+ */
+export function checkClientFileName(name: string | undefined) {
+  const given = name ?? ''
+  if (/[\\/]/.test(given) || /^\s*\.{1,2}\s*$/.test(given)) {
+    throw fieldError('file', `the file name "${given.slice(0, 80)}" contains a path ("/", "\\" or ".."); send the file under its plain name. Nothing was stored.`)
+  }
+  // eslint-disable-next-line no-control-regex
+  if (/[\u0000-\u001f\u007f]/.test(given)) throw fieldError('file', 'the file name contains control characters; rename the file. Nothing was stored.')
+}
+
 interface Sniffed {
   purpose: UploadPurpose
   mime: string
@@ -192,6 +206,7 @@ export async function receiveUpload(event: H3Event, purpose: UploadPurpose, user
   const parts = await readMultipartFormData(event)
   const part = parts?.find(candidate => candidate.name === 'file' && candidate.filename !== undefined)
   if (!part) throw fieldError('file', 'choose a file to upload')
+  checkClientFileName(part.filename)
   if (part.data.byteLength === 0) throw fieldError('file', 'the file is empty')
   if (part.data.byteLength > uploadLimits[purpose].maxBytes) throw tooLarge(purpose)
 

@@ -39,6 +39,9 @@ export const checkoutSchema = z.object({
   taxRegion: z.string().trim().max(60).optional(),
   // After being told of a price change, the customer may accept the new prices and go on.
   acceptChanges: z.boolean().optional(),
+  // Made by the browser for one press of "Go to payment" (kept while the cart and form stay the same),
+  // so a doubled or retried request finds the order the first one made instead of holding stock twice.
+  checkoutKey: z.string({ error: 'checkoutKey must be text' }).regex(/^[A-Za-z0-9_-]{16,80}$/, 'checkoutKey must be 16 to 80 letters, digits, "-" or "_"').optional(),
 })
 
 export type CartItemInput = z.infer<typeof cartItemSchema>
@@ -58,3 +61,9 @@ export const orderStatusLabels = {
 } as const
 
 export type OrderStatus = keyof typeof orderStatusLabels
+
+/** The checkout hold in words, for the cart page and the mails ("30 minutes", "2 hours"). */
+export function holdText(minutes: number): string {
+  if (minutes >= 120 && minutes % 60 === 0) return `${minutes / 60} hours`
+  return minutes === 1 ? '1 minute' : `${minutes} minutes`
+}

@@ -1,5 +1,6 @@
 import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type Page } from '@playwright/test'
+import { demoAccounts } from '../../shared/utils/demoAccounts'
 
 const shots = 'tests/browser/report'
 const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
@@ -88,6 +89,80 @@ test('the shop pages are tidy at phone width', async ({ page }) => {
   await page.goto('/cart')
   expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
   await page.screenshot({ path: `${shots}/cart-phone.png`, fullPage: true })
+})
+
+async function fillAddress(page: Page, email: string) {
+  await page.getByLabel('E-mail').fill(email)
+  await page.locator('input[name="name"]').fill('Wren Holloway')
+  await page.locator('input[name="line1"]').fill('9 Quill Lane')
+  await page.getByLabel('Postal code').fill('LM2 4AB')
+  await page.getByLabel('Town or city').fill('Lowmere')
+  await page.getByLabel('Country').fill('Utopia')
+}
+
+const noSideways = async (page: Page) => expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
+
+test('at phone width: cancelling on the payment page gives the order up; paying shows a tidy order page, for the customer and the maker', async ({ page }) => {
+  await page.setViewportSize({ width: 390, height: 844 })
+  const blank = await addFirstInStock(page, 'blank')
+  await page.goto('/cart')
+  await expect(page.getByRole('link', { name: blank })).toBeVisible()
+  await expect(page.getByText(/We hold your cylinders for \d+ (minutes|hours)/)).toBeVisible()
+  await fillAddress(page, `phone-${Date.now()}@collectors.test`)
+
+  // Cancel on the payment page: back in the cart, the order is given up and the cart kept.
+  // The answer is read on its way through: the page navigates away before its body could be asked for.
+  let given = { orderNumber: '', accessToken: '' }
+  await page.route('**/api/checkout', async (route) => {
+    const response = await route.fetch()
+    given = await response.json()
+    await route.fulfill({ response })
+  })
+  await page.getByRole('button', { name: 'Go to payment' }).click()
+  await expect(page).toHaveURL(new RegExp(`127\\.0\\.0\\.1:${port + 1003}/pay/cs_test_`))
+  await page.getByRole('button', { name: 'Cancel' }).click()
+  await page.unroute('**/api/checkout')
+  expect(given.orderNumber).toMatch(/^GW\d{2}-\d{5}$/)
+  await expect(page).toHaveURL(new RegExp(`/cart\\?cancelled=${given.orderNumber}`))
+  await expect(page.getByTestId('cancelled-order')).toContainText(`order ${given.orderNumber} is cancelled and nothing was charged`)
+  // The signed link's token is dropped from the address once it has been used.
+  await expect(page).not.toHaveURL(/[?&]t=/)
+  await expect(page.getByRole('link', { name: blank })).toBeVisible()
+  await noSideways(page)
+  await page.screenshot({ path: `${shots}/cart-cancelled-phone.png`, fullPage: true })
+  await noSeriousAxe(page)
+  const abandoned = await page.request.get(`/api/orders/${given.orderNumber}?t=${given.accessToken}`)
+  expect((await abandoned.json()).status).toBe('cancelled')
+
+  // Checking out again holds the items afresh; this time the customer pays.
+  await fillAddress(page, `phone-${Date.now()}@collectors.test`)
+  await page.getByRole('button', { name: 'Go to payment' }).click()
+  await expect(page).toHaveURL(new RegExp(`127\\.0\\.0\\.1:${port + 1003}/pay/cs_test_`))
+  await page.getByRole('button', { name: 'Pay' }).click()
+  await expect(page).toHaveURL(/\/checkout\/done\?order=GW\d{2}-\d{5}/)
+  await expect(page.getByTestId('order-status')).toHaveText(/^(Paid|Being made)$/, { timeout: 15_000 })
+  const paid = new URL(page.url())
+  const orderNumber = paid.searchParams.get('order')!
+  expect(orderNumber).not.toBe(given.orderNumber)
+  await page.goto(`/orders/${orderNumber}?t=${paid.searchParams.get('t')}`)
+  await expect(page.getByTestId('order-status')).toHaveText(/^(Paid|Being made)$/)
+  await noSideways(page)
+  await page.screenshot({ path: `${shots}/order-phone.png`, fullPage: true })
+  await noSeriousAxe(page)
+
+  // The maker's view of the same order, with the refund form choosing what goes back on sale.
+  const maker = demoAccounts.find(account => account.role === 'maker')!
+  await page.goto('/signin')
+  await page.getByLabel('E-mail').fill(maker.email)
+  await page.getByLabel('Password').fill(maker.password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
+  await page.goto(`/workshop/orders/${orderNumber}`)
+  await expect(page.getByRole('heading', { name: 'Refund' })).toBeVisible()
+  await expect(page.getByRole('group', { name: 'Back on sale' }).getByLabel(blank)).toBeVisible()
+  await noSideways(page)
+  await page.screenshot({ path: `${shots}/workshop-order-phone.png`, fullPage: true })
+  await noSeriousAxe(page)
 })
 
 test('the product page carries Product structured data and the sitemap lists it', async ({ page, request }) => {

@@ -302,15 +302,23 @@ describe('uploads', () => {
     expect(status).toBe(413)
   })
 
-  it('stores a file named with ../ under a generated id, keeping only a clean label', async () => {
-    const answer = await upload(maker, 'photo', { name: '../../../etc/evil.png', bytes: await pngOf(64, 48), type: 'image/png' })
-    expect(answer.status).toBe(201)
-    expect(answer.body.id).toMatch(/^[A-Za-z0-9_-]{20,}$/)
-    expect(answer.body.originalName).toBe('evil.png')
-    const names = readdirSync(uploadsDir)
-    expect(names).toContain(answer.body.id)
-    expect(names.some(name => name.includes('evil'))).toBe(false)
+  it('refuses a file named with ../, / or \\ with 400 and a message, and stores nothing', async () => {
+    const before = await stored()
+    const png = await pngOf(64, 48)
+    for (const name of ['../../../etc/evil.png', 'photos/evil.png', '..\\..\\evil.png', '..']) {
+      const answer = await upload(maker, 'photo', { name, bytes: png, type: 'image/png' })
+      expect(answer.status, name).toBe(400)
+      expect(answer.body.data.fields.file, name).toMatch(/path/)
+      expect(answer.body.message, name).toMatch(/Nothing was stored/)
+    }
+    expect(await stored()).toEqual(before)
+    expect(readdirSync(uploadsDir, { recursive: true }).some(name => String(name).includes('evil'))).toBe(false)
     expect(readdirSync(join(uploadsDir, '..')).some(name => name.includes('evil'))).toBe(false)
+    // The same bytes under a plain name are taken: the refusal was for the name alone.
+    const plain = await upload(maker, 'photo', { name: 'evil.png', bytes: png, type: 'image/png' })
+    expect(plain.status).toBe(201)
+    expect(plain.body.originalName).toBe('evil.png')
+    expect(readdirSync(uploadsDir)).toContain(plain.body.id)
   })
 
   it('re-encodes a valid PNG (no metadata, at most 2000 px) and serves it by id with the right headers', async () => {
