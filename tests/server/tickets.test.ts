@@ -347,6 +347,22 @@ describe('the ticket life cycle', () => {
     expect(await orderStatus(placed.orderNumber)).toBe('ready_to_pack')
     const timeline = (await maker.get(`/api/workshop/orders/${placed.orderNumber}`)).body.timeline.map((step: any) => step.to)
     expect(timeline).toEqual(['awaiting_payment', 'paid', 'in_production', 'ready_to_pack'])
+
+    // The shipper's queue shows it: where it goes, what is in it, the packing; never what it cost.
+    const shipper = await signedIn(account('shipper').email, account('shipper').password)
+    const queue = await shipper.get('/api/dispatch/queue')
+    expect(queue.status).toBe(200)
+    const entry = queue.body.readyToPack.find((e: any) => e.number === placed.orderNumber)
+    expect(entry).toMatchObject({ status: 'ready_to_pack', cylinders: 2, contents: [{ title: expect.stringMatching(/^Cut to order/), format: 'two_minute', quantity: 2 }] })
+    expect(entry.shipTo.name).toBeTruthy()
+    // Two cylinders, each in its own padded tube with ≥ 2 in of cushioning, double-boxed (carrier packing guidance).
+    expect(entry.parcels).toHaveLength(1)
+    expect(entry.parcels[0]).toMatchObject({ ok: true, cylinders: 2 })
+    expect(entry.parcels[0].innerBox).toBeTruthy()
+    expect(entry.parcels[0].billableWeightG).toBeGreaterThanOrEqual(entry.parcels[0].actualWeightG)
+    expect(JSON.stringify(queue.body)).not.toMatch(/Minor|price|total|payment/i)
+    expect((await collector.get('/api/dispatch/queue')).status).toBe(403)
+    expect((await new Client().get('/api/dispatch/queue')).status).toBe(401)
   })
 })
 
