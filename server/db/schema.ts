@@ -9,7 +9,8 @@ export const users = pgTable('users', {
   name: text('name').notNull(),
   passwordHash: text('password_hash').notNull(),
   role: userRole('role').notNull().default('collector'),
-  // Bumped on password change or role change: sealed cookies carrying an older value stop working.
+  // Bumped on a password change or reset: sealed cookies carrying an older value stop working. A role
+  // change needs no bump: the role is read from this row on every request, so it applies at once.
   sessionVersion: integer('session_version').notNull().default(1),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
