@@ -78,3 +78,22 @@ test('registration shows the field that needs fixing, then signs the collector i
   await expect(page.getByText('Signed in as Wren Holloway')).toBeVisible()
   await page.screenshot({ path: `${shots}/account.png`, fullPage: true })
 })
+
+test('the shipper\'s dispatch queue lists what to pack, where it goes and the boxes, with no prices', async ({ page }) => {
+  await page.setViewportSize({ width: 390, height: 844 })
+  await signIn(page, 'shipper')
+  await page.goto('/dispatch')
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Dispatch')
+  // The demo has one order ready to pack and one packed (invented scenario).
+  const ready = page.getByRole('region', { name: /Ready to pack \(\d+\)/ })
+  await expect(ready.getByRole('heading', { level: 3 }).first()).toHaveText(/^GW\d{2}-\d{5}$/)
+  await expect(ready.locator('address').first()).toBeVisible()
+  await expect(ready).toContainText('in a padded tube')
+  await expect(ready).toContainText('billed as')
+  await expect(page.getByRole('region', { name: /Packed, waiting for the carrier \(\d+\)/ }).locator('li').first()).toBeVisible()
+  await expect(page.locator('main')).not.toContainText('$')
+  expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
+  await page.screenshot({ path: `${shots}/dispatch-phone.png`, fullPage: true })
+  const axe = await new AxeBuilder({ page }).analyze()
+  expect(axe.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')).toEqual([])
+})
