@@ -46,6 +46,8 @@ export default defineNuxtConfig({
     checkoutHoldMinutes: 30,
     public: {
       shopName: 'Groovewright demo workshop',
+      // Largest surface-test recording taken, MB (a shop setting; checked before the body is read).
+      surfaceTestMaxMb: 60,
       siteUrl: 'http://localhost:3000',
       // No payment script runs in the browser: checkout redirects to the hosted page's own address
       // (the session's `url`), so no publishable key is needed, and in fake mode nothing outside loads.

@@ -33,10 +33,7 @@ export async function readSurfaceWavUpload(event: H3Event): Promise<SurfaceWavUp
   const parts = await readMultipartFormData(event)
   const file = parts?.find(part => part.name === 'file' && part.filename !== undefined)
   if (!file) throw fieldError('file', 'choose the WAV file of the play-through')
-  const limit = uploadLimits.surface_test
-  if (file.data.byteLength > limit.maxBytes) {
-    throw createError({ statusCode: 413, statusMessage: statusMessages[413], message: `file: the recording is larger than ${limit.label}; nothing was stored.`, data: { fields: { file: `larger than ${limit.label}` } } })
-  }
+  if (file.data.byteLength > uploadLimit('surface_test').maxBytes) throw tooLarge('surface_test')
   const fields: Record<string, string> = {}
   for (const part of parts ?? []) {
     if (part.name && part.name !== 'file' && part.filename === undefined) fields[part.name] = part.data.toString('utf8')

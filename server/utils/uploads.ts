@@ -4,7 +4,7 @@ import { inArray } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import sharp from 'sharp'
 import type { Storage } from 'unstorage'
-import type { UploadPurpose } from '#shared/utils/catalogueSchemas'
+import type { UploadLimit, UploadPurpose } from '#shared/utils/catalogueSchemas'
 import fsDriver from 'unstorage/drivers/fs'
 import { files } from '../db/schema'
 import type { Database, Transaction } from './db'
@@ -113,8 +113,13 @@ function describeRefused(bytes: Uint8Array): string {
   return 'of a kind we do not take'
 }
 
-function tooLarge(purpose: UploadPurpose) {
-  const limit = uploadLimits[purpose]
+/** This server's limit for one kind of upload (the surface-test size comes from the runtime config). */
+export function uploadLimit(purpose: UploadPurpose): UploadLimit {
+  return uploadLimitOf(purpose, useRuntimeConfig().public.surfaceTestMaxMb)
+}
+
+export function tooLarge(purpose: UploadPurpose) {
+  const limit = uploadLimit(purpose)
   return createError({
     statusCode: 413,
     statusMessage: 'Payload Too Large',
@@ -139,7 +144,7 @@ export function checkDeclaredSize(event: H3Event, purpose: UploadPurpose) {
   if (!header || !/^\d+$/.test(header)) {
     throw createError({ statusCode: 411, statusMessage: 'Length Required', message: 'file: the upload must state its size (Content-Length); nothing was stored.' })
   }
-  if (Number(header) > uploadLimits[purpose].maxBytes + MULTIPART_ALLOWANCE_BYTES) throw tooLarge(purpose)
+  if (Number(header) > uploadLimit(purpose).maxBytes + MULTIPART_ALLOWANCE_BYTES) throw tooLarge(purpose)
 }
 
 interface Prepared {
@@ -208,7 +213,7 @@ export async function receiveUpload(event: H3Event, purpose: UploadPurpose, user
   if (!part) throw fieldError('file', 'choose a file to upload')
   checkClientFileName(part.filename)
   if (part.data.byteLength === 0) throw fieldError('file', 'the file is empty')
-  if (part.data.byteLength > uploadLimits[purpose].maxBytes) throw tooLarge(purpose)
+  if (part.data.byteLength > uploadLimit(purpose).maxBytes) throw tooLarge(purpose)
 
   const sniffed = sniffFile(part.data)
   if (!sniffed || sniffed.purpose !== purpose) throw unsupported(purpose, describeRefused(part.data))

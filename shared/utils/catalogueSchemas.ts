@@ -18,6 +18,19 @@ export const uploadLimits = {
 } as const
 export type UploadPurpose = keyof typeof uploadLimits
 
+export interface UploadLimit { maxBytes: number, label: string, types: string }
+
+/**
+ * The limit for one kind of upload. The surface-test recording's size is a shop setting
+ * (NUXT_PUBLIC_SURFACE_TEST_MAX_MB, 60 by default), read by server and browser alike.
+ */
+export function uploadLimitOf(purpose: UploadPurpose, surfaceTestMaxMb?: unknown): UploadLimit {
+  const limit = uploadLimits[purpose]
+  const mb = Number(surfaceTestMaxMb)
+  if (purpose !== 'surface_test' || !(Number.isFinite(mb) && mb > 0)) return limit
+  return { ...limit, maxBytes: Math.round(mb * 1024 * 1024), label: `${mb} MB` }
+}
+
 const text = (field: string, max: number, min = 0) => z.string({ error: `${field} must be text` })
   .trim()
   .min(min, min <= 1 ? `${field} is required` : `${field} needs at least ${min} characters`)
