@@ -54,7 +54,7 @@ export async function createTicketsForOrder(tx: Db, orderId: number): Promise<nu
   const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
   const toMake = items.filter(item => item.madeToOrder || item.kind === 'custom')
   if (toMake.length === 0) return 0
-  const dueDate = ticketDueDate(order.paidAt)
+  const dueDate = ticketDueDate(order.paidAt, (await getSetting('engine', tx)).production.leadTimeDays)
   const rows = toMake.flatMap(item => Array.from({ length: item.quantity }, (_, index) => ({
     orderId, orderItemId: item.id, unit: index + 1, format: item.format, dueDate, wishes: ticketWishesFromDetails(item.details),
   })))

@@ -192,6 +192,11 @@ const priceSettingsSchema = z.object({
   ]),
 })
 
+const productionSettingsSchema = z.object({
+  /** Days from payment to a made-to-order cylinder's due date on its ticket. A shop choice. */
+  leadTimeDays: z.number({ error: 'leadTimeDays must be a number' }).int('leadTimeDays must be whole days').min(1, 'leadTimeDays must be at least 1').max(365, 'leadTimeDays is at most 365').default(10),
+})
+
 export const engineSettingsSchema = z.object({
   formats: z.object({
     two_minute: formatSettingsSchema(cylinderFormatTable.two_minute.defaultRecordableLengthIn).prefault({}),
@@ -205,6 +210,7 @@ export const engineSettingsSchema = z.object({
   heat: heatSettingsSchema.prefault({}),
   packing: packingSettingsSchema.prefault({}),
   prices: priceSettingsSchema.prefault({}),
+  production: productionSettingsSchema.prefault({}),
 })
 
 export type EngineSettings = z.output<typeof engineSettingsSchema>

@@ -25,7 +25,7 @@ export const ticketStageLabels: Record<TicketStage, string> = {
 export type TicketKind = 'recorded' | 'custom'
 export const ticketKindOf = (itemKind: string): TicketKind => (itemKind === 'custom' ? 'custom' : 'recorded')
 
-/** Days from payment to the date a ticket is due. A shop choice; see the report on a settings key for it. */
+/** Days from payment to the date a ticket is due, by default; the shop sets its own (Workshop figures › Production). */
 export const ticketLeadTimeDays = 10
 
 /** What happens on each move, and through which route: `assign` and `cut` need their own data. */

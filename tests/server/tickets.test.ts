@@ -329,6 +329,25 @@ describe('the ticket life cycle', () => {
     expect(events[5].note).toBe(`Blank changed from ${first} to ${second}.`)
   })
 
+  it('a ticket is due the shop\'s lead time after payment (Workshop figures › Production)', async () => {
+    const settings = (await maker.get('/api/workshop/settings/engine')).body.settings
+    try {
+      expect((await maker.put('/api/workshop/settings/engine', { ...settings, production: { leadTimeDays: 3 } })).status).toBe(200)
+      const product = await madeToOrderProduct('two_minute')
+      const day = (offset: number) => new Date(Date.now() + offset * 86_400_000).toISOString().slice(0, 10)
+      const before = day(3)
+      const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
+      const [ticket] = await waitFor(async () => {
+        const found = await ticketsOf(placed.orderNumber)
+        return found.length === 1 ? found : null
+      }, 10_000, 'the ticket')
+      expect([before, day(3)]).toContain(ticket.dueDate)
+    }
+    finally {
+      expect((await maker.put('/api/workshop/settings/engine', settings)).status).toBe(200)
+    }
+  })
+
   it('when every ticket of an order reaches dispatch, the order is ready to pack', async () => {
     const product = await madeToOrderProduct('two_minute')
     const placed = await order(collector, [{ slug: product.slug, qty: 2 }])
