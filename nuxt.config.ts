@@ -26,6 +26,8 @@ export default defineNuxtConfig({
     uploadsDir: '.data/uploads',
     migrationsDir,
     seedDemo: 'true',
+    // 'true' behind a proxy or load balancer that sets X-Forwarded-For (rate limits per client address).
+    trustProxy: 'false',
     siteUrl: 'http://localhost:3000',
     smtpHost: '127.0.0.1',
     smtpPort: 2525,

@@ -11,8 +11,14 @@ const resetWindowMs = 60 * 60 * 1000
 const resetsPerEmail = 3
 const resetsPerAddress = 20
 
+/**
+ * The client's network address. Behind a proxy or load balancer every request comes from the proxy,
+ * so with NUXT_TRUST_PROXY=true the address the proxy puts in X-Forwarded-For is used instead (only
+ * set it when a proxy you run sets that header; a client could otherwise choose its own).
+ */
 export function clientAddress(event: H3Event): string {
-  return getRequestIP(event) ?? 'unknown'
+  const trustProxy = String(useRuntimeConfig().trustProxy) === 'true'
+  return getRequestIP(event, { xForwardedFor: trustProxy }) ?? 'unknown'
 }
 
 type Log = typeof signInFailures | typeof resetRequests
@@ -74,10 +80,16 @@ export async function clearSignInFailures(email: string) {
  * Logs the request when it is allowed.
  */
 export async function logResetRequest(event: H3Event, email: string): Promise<void> {
-  const full = await fullWindow(resetRequests, event, email, resetWindowMs, { email: resetsPerEmail, address: resetsPerAddress })
-  if (full) {
-    throw tooMany(event, full.oldest, resetWindowMs, wait => `Too many reset requests for this address. Check your inbox (and spam folder) for the links already sent, or try again in ${wait}.`)
-  }
+  const limits = { email: resetsPerEmail, address: resetsPerAddress }
+  const tooManyResets = (oldest: Date | string | null) => tooMany(event, oldest, resetWindowMs, wait => `Too many reset requests for this address. Check your inbox (and spam folder) for the links already sent, or try again in ${wait}.`)
+  const full = await fullWindow(resetRequests, event, email, resetWindowMs, limits)
+  if (full) throw tooManyResets(full.oldest)
+  // Logged first and counted again, as with sign-ins: requests sent all at once cannot slip past the limit.
   const db = await useDB()
-  await db.insert(resetRequests).values({ email, address: clientAddress(event) })
+  const [logged] = await db.insert(resetRequests).values({ email, address: clientAddress(event) }).returning({ id: resetRequests.id })
+  const over = await fullWindow(resetRequests, event, email, resetWindowMs, limits, 1)
+  if (over) {
+    await db.delete(resetRequests).where(eq(resetRequests.id, logged!.id))
+    throw tooManyResets(over.oldest)
+  }
 }

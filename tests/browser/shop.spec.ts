@@ -175,3 +175,16 @@ test('the product page carries Product structured data and the sitemap lists it'
   const sitemap = await (await request.get('/sitemap.xml')).text()
   expect(sitemap).toContain(`/cylinders/${slug}</loc>`)
 })
+
+test('a bare ?cancelled= link gives nothing up by itself: it only offers the button', async ({ page }) => {
+  const calls: string[] = []
+  page.on('request', (request) => {
+    if (request.method() === 'POST' && request.url().includes('/cancel')) calls.push(request.url())
+  })
+  await page.goto('/cart?cancelled=GW26-01003')
+  const notice = page.getByTestId('cancelled-order')
+  await expect(notice).toContainText('was not paid')
+  await expect(notice.getByRole('button', { name: 'Give up this order and release the items' })).toBeVisible()
+  await page.waitForTimeout(500)
+  expect(calls).toEqual([])
+})
