@@ -24,7 +24,12 @@ async function replay(order: Order, email: string) {
   const stripe = useStripe()
   let url: string | null | undefined
   if (order.checkoutSessionId) {
-    url = (await stripe.checkout.sessions.retrieve(order.checkoutSessionId).catch(() => null))?.url
+    const session = await stripe.checkout.sessions.retrieve(order.checkoutSessionId).catch(() => null)
+    // Paid on the payment page, and the confirmation is on its way: say so, not "press again".
+    if (session?.status === 'complete') {
+      throw createError({ statusCode: 409, statusMessage: 'Already paid', message: `Order ${order.number} is paid; its confirmation is on its way by e-mail.`, data: { orderNumber: order.number, status: 'paid' } })
+    }
+    url = session?.url
   }
   else {
     // The first request is still opening the page: the same idempotency key makes this the same page.
