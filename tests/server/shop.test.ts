@@ -383,6 +383,19 @@ describe('leaving the payment page, and checking out twice', () => {
     expect(fresh.status).toBe(201)
     expect(fresh.body.orderNumber).not.toBe(orderNumber)
     expect(await stockOf(product.slug)).toBe(0)
+
+    // Paid on the payment page while its confirmation is still on the way: a retry is told it is paid.
+    await fake('/_fake/hold', { hold: true })
+    try {
+      await fake(`/_fake/sessions/${String(fresh.body.url).split('/').pop()}/complete`, {})
+      const afterPaying = await buyer.post('/api/checkout', body)
+      expect(afterPaying.status).toBe(409)
+      expect(afterPaying.body.message).toBe(`Order ${fresh.body.orderNumber} is paid; its confirmation is on its way by e-mail.`)
+    }
+    finally {
+      await fake('/_fake/hold', { hold: false })
+      await fake('/_fake/deliver', {})
+    }
   })
 })
 
