@@ -71,6 +71,12 @@ export async function startMailFake(options: MailFakeOptions = {}) {
     },
   })
 
+  // A client that drops its connection mid-session (a server killed in a crash test, say) is an
+  // 'error' on the SMTP server; without a listener it would end the whole process.
+  smtp.on('error', (error: Error) => {
+    if (!options.quiet) console.error(`[mail] connection error: ${error.message}`)
+  })
+
   const http: Server = createServer((req, res) => {
     const url = new URL(req.url ?? '/', `http://127.0.0.1:${httpPort}`)
     const send = (status: number, type: string, body: string | Buffer) => {

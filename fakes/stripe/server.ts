@@ -449,6 +449,15 @@ export async function startStripeFake(options: StripeFakeOptions = {}) {
         if (typeof options.hold === 'boolean') holdAll = options.hold
         return json(200, { url: webhookUrl, secret: webhookSecret, hold: holdAll })
       }
+      if (path === '/_fake/refunds/pending-next' && method === 'POST') {
+        state.holdNextRefund(flag('pending', true))
+        return json(200, { pendingNext: flag('pending', true) })
+      }
+      const refundFail = /^\/_fake\/refunds\/([^/]+)\/fail$/.exec(path)
+      if (refundFail && method === 'POST') {
+        const { refund, event } = state.failRefund(decodeURIComponent(refundFail[1]!))
+        return json(200, { refund, event })
+      }
       if (path === '/_fake/hold' && method === 'POST') {
         holdAll = flag('hold', true)
         return json(200, { hold: holdAll })

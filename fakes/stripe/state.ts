@@ -98,7 +98,7 @@ export interface Refund {
   payment_intent: string
   reason: string | null
   receipt_number: string | null
-  status: 'succeeded'
+  status: 'pending' | 'succeeded' | 'failed' | 'canceled'
 }
 
 export interface Charge {
@@ -139,7 +139,7 @@ export interface StripeEvent {
   type: string
 }
 
-export type EventType = 'checkout.session.completed' | 'checkout.session.expired' | 'payment_intent.payment_failed' | 'charge.refunded'
+export type EventType = 'checkout.session.completed' | 'checkout.session.expired' | 'payment_intent.payment_failed' | 'charge.refunded' | 'charge.refund.updated'
 
 export interface RequestInfo { id: string | null, idempotency_key: string | null }
 export const NO_REQUEST: RequestInfo = { id: null, idempotency_key: null }
@@ -194,6 +194,8 @@ export function createState(options: StateOptions) {
   const charges = new Map<string, Charge>()
   const refunds = new Map<string, Refund>()
   const events = new Map<string, StripeEvent>()
+  /** The next refund starts `pending` (as some payment methods' do) instead of `succeeded`. */
+  let nextRefundPending = false
 
   const newestFirst = <T>(map: Map<string, T>) => [...map.values()].reverse()
 
@@ -666,8 +668,9 @@ export function createState(options: StateOptions) {
       payment_intent: charge.payment_intent,
       reason: reason ?? null,
       receipt_number: null,
-      status: 'succeeded',
+      status: nextRefundPending ? 'pending' : 'succeeded',
     }
+    nextRefundPending = false
     refunds.set(refund.id, refund)
     charge.amount_refunded += refundAmount
     charge.refunded = charge.amount_refunded >= charge.amount
@@ -675,6 +678,29 @@ export function createState(options: StateOptions) {
     if (previous.refunded !== charge.refunded) changed.refunded = previous.refunded
     const event = emit('charge.refunded', chargeWithRefunds(charge), request, changed)
     return { refund, charge, event }
+  }
+
+  /** Test control: the next refund created starts as `pending`. */
+  function holdNextRefund(pending = true) {
+    nextRefundPending = pending
+  }
+
+  /**
+   * Test control: a refund fails (a closed card account, say). The money is back on the charge, and
+   * `charge.refund.updated` carries the refund with its new status.
+   */
+  function failRefund(id: string) {
+    const refund = getRefund(id)
+    if (refund.status === 'failed' || refund.status === 'canceled') throw invalid(`Refund ${id} has already ${refund.status}.`, undefined, undefined, false)
+    const previousStatus = refund.status
+    refund.status = 'failed'
+    const charge = charges.get(refund.charge)
+    if (charge) {
+      charge.amount_refunded = Math.max(0, charge.amount_refunded - refund.amount)
+      charge.refunded = charge.amount_refunded >= charge.amount
+    }
+    const event = emit('charge.refund.updated', refund, NO_REQUEST, { status: previousStatus })
+    return { refund, event }
   }
 
   function getRefund(id: string) {
@@ -728,6 +754,8 @@ export function createState(options: StateOptions) {
     getCharge,
     chargeWithRefunds,
     createRefund,
+    holdNextRefund,
+    failRefund,
     getRefund,
     getEvent,
     resolve,

@@ -1,6 +1,6 @@
 import { createHmac, timingSafeEqual } from 'node:crypto'
-import { and, eq, sql } from 'drizzle-orm'
-import { orderEvents, orderItems, orders, products, refundItems } from '../db/schema'
+import { and, eq, ne, sql } from 'drizzle-orm'
+import { orderEvents, orderItems, orders, products, refundItems, refunds } from '../db/schema'
 import type { Database, Transaction } from './db'
 
 export type Order = typeof orders.$inferSelect
@@ -109,9 +109,10 @@ export function restockableItem(item: typeof orderItems.$inferSelect): boolean {
 
 /** Per order item, how many are already back on sale or asked to go back by a refund not yet confirmed. */
 export async function returnedCounts(db: Database | Transaction, orderId: number): Promise<Map<number, number>> {
+  // A refund that failed puts nothing back, so its items may be chosen again.
   const rows = await db.select({ orderItemId: refundItems.orderItemId, quantity: sql<number>`sum(${refundItems.quantity})::int` })
-    .from(refundItems).innerJoin(orderItems, eq(orderItems.id, refundItems.orderItemId))
-    .where(eq(orderItems.orderId, orderId)).groupBy(refundItems.orderItemId)
+    .from(refundItems).innerJoin(orderItems, eq(orderItems.id, refundItems.orderItemId)).innerJoin(refunds, eq(refunds.id, refundItems.refundId))
+    .where(and(eq(orderItems.orderId, orderId), ne(refunds.status, 'failed'))).groupBy(refundItems.orderItemId)
   return new Map(rows.map(row => [row.orderItemId, Number(row.quantity)]))
 }
 

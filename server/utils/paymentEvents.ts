@@ -106,6 +106,24 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       const listed = charge.refunds?.data ?? (await useStripe().refunds.list({ payment_intent: intentId(charge.payment_intent) ?? undefined, charge: intentId(charge.payment_intent) ? undefined : charge.id, limit: 100 })).data
       return { outcome: await applyRefunds(tx, order, charge.amount_refunded, listed), orderId: order.id }
     }
+    case 'charge.refund.updated': {
+      // A refund that changed after it was made: above all one that failed (the money is back on the
+      // charge). Settled like the refunds listed on a charge; the refunded total is not touched here.
+      const refund = paymentEvent.data.object
+      const order = await findOrder(tx, { number: refund.metadata?.order_number, paymentIntent: intentId(refund.payment_intent) })
+      if (!order) return { outcome: 'no such order' }
+      const outcome = await applyRefunds(tx, order, 0, [refund])
+      if (refund.status === 'failed' || refund.status === 'canceled') {
+        // The charge now says how much really went back: the one place the refunded total may go down.
+        const chargeId = typeof refund.charge === 'string' ? refund.charge : refund.charge?.id
+        const charge = chargeId ? await useStripe().charges.retrieve(chargeId) : null
+        if (charge) {
+          await tx.update(orders).set({ refundedMinor: sql`least(${orders.totalMinor}, ${charge.amount_refunded})`, updatedAt: new Date() }).where(eq(orders.id, order.id))
+        }
+        return { outcome: `refund ${refund.status}`, orderId: order.id }
+      }
+      return { outcome, orderId: order.id }
+    }
     default:
       return { outcome: 'ignored type' }
   }
@@ -113,9 +131,16 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
 
 async function applyRefunds(tx: Transaction, order: typeof orders.$inferSelect, amountRefunded: number, providerRefunds: Stripe.Refund[]) {
   for (const providerRefund of providerRefunds) {
-    if (providerRefund.status !== 'succeeded') continue
     const localId = Number(providerRefund.metadata?.refund_id)
     const match = Number.isInteger(localId) && localId > 0 ? eq(refunds.id, localId) : eq(refunds.providerRefundId, providerRefund.id)
+    if (providerRefund.status === 'failed' || providerRefund.status === 'canceled') {
+      // Not paid back after all: the refund no longer counts against what is left to refund or
+      // restock. One the shop had already counted as paid back is left for the maker to look at.
+      await tx.update(refunds).set({ status: 'failed', providerRefundId: providerRefund.id })
+        .where(and(match, eq(refunds.orderId, order.id), sql`${refunds.status} not in ('succeeded', 'failed')`))
+      continue
+    }
+    if (providerRefund.status !== 'succeeded') continue
     const [settled] = await tx.update(refunds).set({ status: 'succeeded', providerRefundId: providerRefund.id })
       .where(and(match, eq(refunds.orderId, order.id), sql`${refunds.status} <> 'succeeded'`)).returning()
     // The items this refund chose go back on sale here, once: only the event that moved the refund to

@@ -1,4 +1,4 @@
-import { eq, sum } from 'drizzle-orm'
+import { and, eq, ne, sum } from 'drizzle-orm'
 import Stripe from 'stripe'
 import { z } from 'zod'
 import type { Transaction } from '../../../../utils/db'
@@ -56,7 +56,7 @@ export default defineEventHandler(async (event) => {
     if (!order) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such order.' })
     if (!refundable.has(order.status) || !order.paymentIntentId) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `An order that is ${order.status} cannot be refunded.` })
     // Refunds asked for but not yet confirmed count too, so two clicks cannot refund twice.
-    const [asked] = await tx.select({ total: sum(refunds.amountMinor) }).from(refunds).where(eq(refunds.orderId, order.id))
+    const [asked] = await tx.select({ total: sum(refunds.amountMinor) }).from(refunds).where(and(eq(refunds.orderId, order.id), ne(refunds.status, 'failed')))
     const remaining = order.totalMinor - Math.max(Number(asked?.total ?? 0), order.refundedMinor)
     const amountMinor = input.amountMinor ?? remaining
     if (amountMinor <= 0 || amountMinor > remaining) throw fieldError('amountMinor', `at most ${formatMoney(Math.max(0, remaining), order.currency)} is left to refund`)
