@@ -11,6 +11,39 @@ export function fieldError(field: string, message: string) {
   })
 }
 
+/**
+ * Characters that no form of ours sends and PostgreSQL cannot store in text (NUL) or that only hide
+ * what a text says: the C0 controls but tab, line feed and carriage return, and DEL.
+ */
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
+const CONTROL_CHARACTER = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/
+
+function controlCharacterName(text: string): string | undefined {
+  const found = CONTROL_CHARACTER.exec(text)?.[0]
+  return found === undefined ? undefined : `U+${found.charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}`
+}
+
+/**
+ * A 400 naming the first field (by its path, `address.line1`) whose text, or whose key, holds a
+ * control character. Every JSON body, query and route parameter passes here before its schema.
+ */
+export function rejectControlCharacters(value: unknown, field = ''): void {
+  if (typeof value === 'string') {
+    const name = controlCharacterName(value)
+    if (name) throw fieldError(field || 'body', `contains a control character (${name}); type plain text`)
+  }
+  else if (Array.isArray(value)) {
+    value.forEach((item, index) => rejectControlCharacters(item, field ? `${field}.${index}` : String(index)))
+  }
+  else if (value !== null && typeof value === 'object') {
+    for (const [key, item] of Object.entries(value)) {
+      const name = controlCharacterName(key)
+      if (name) throw fieldError(field || 'body', `a field name contains a control character (${name})`)
+      rejectControlCharacters(item, field ? `${field}.${key}` : key)
+    }
+  }
+}
+
 function zodFailure(issues: { path: PropertyKey[], message: string }[]) {
   const fields: Record<string, string> = {}
   for (const issue of issues) {
@@ -29,19 +62,24 @@ export async function readBodyWith<T>(event: H3Event, schema: ZodType<T>): Promi
   catch {
     throw fieldError('body', 'the request body is not valid JSON')
   }
+  rejectControlCharacters(body)
   const parsed = schema.safeParse(body ?? {})
   if (!parsed.success) throw zodFailure(parsed.error.issues)
   return parsed.data
 }
 
 export function queryWith<T>(event: H3Event, schema: ZodType<T>): T {
-  const parsed = schema.safeParse(getQuery(event))
+  const query = getQuery(event)
+  rejectControlCharacters(query)
+  const parsed = schema.safeParse(query)
   if (!parsed.success) throw zodFailure(parsed.error.issues)
   return parsed.data
 }
 
 export function paramsWith<T>(event: H3Event, schema: ZodType<T>): T {
-  const parsed = schema.safeParse(event.context.params ?? {})
+  const params = event.context.params ?? {}
+  rejectControlCharacters(params)
+  const parsed = schema.safeParse(params)
   if (!parsed.success) throw zodFailure(parsed.error.issues)
   return parsed.data
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { lengthBounds } from './bounds'
 import { cylinderFormats, groovePitchMm, playingTimeMinutes, rotationFrequencyHz, standardBlankDimensions, surfaceSpeedInPerSec } from './cylinder'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
@@ -51,10 +52,10 @@ export const CUSTOM_SCRIPT_MAX_CHARS = 20_000
 const rpmField = numberInputField('rpm', { positive: true, max: 400 })
 
 export const playingTimeQuerySchema = z.object({
-  length: lengthField('length', { positive: true }),
+  length: lengthField('length', { positive: true, ...lengthBounds.recordedLengthIn }),
   tpi: numberInputField('tpi', { positive: true, max: 1000 }),
   rpm: rpmField.optional(),
-  diameter: lengthField('diameter', { positive: true }).optional(),
+  diameter: lengthField('diameter', { positive: true, ...lengthBounds.diameterIn }).optional(),
 })
 export type PlayingTimeQuery = z.output<typeof playingTimeQuerySchema>
 
@@ -93,9 +94,9 @@ export function benchCustomFit(body: CustomFitBody, settings: EngineSettings = d
 }
 
 export const reamingQuerySchema = z.object({
-  overhang: lengthField('overhang', { allowNegative: true }),
-  target: lengthField('target', { allowNegative: true }).optional(),
-  perReaming: lengthField('perReaming', { positive: true }).optional(),
+  overhang: lengthField('overhang', { allowNegative: true, ...lengthBounds.overhangIn }),
+  target: lengthField('target', { allowNegative: true, ...lengthBounds.overhangIn }).optional(),
+  perReaming: lengthField('perReaming', { positive: true, ...lengthBounds.perReamingIn }).optional(),
   setSize: numberInputField('setSize', { integer: true, min: 1, max: 20 }).optional(),
   /** Temperature of the blank when read, °F. */
   temperatureF: numberInputField('temperatureF', { min: -40, max: 160 }).optional(),
@@ -119,13 +120,13 @@ export function benchReaming(query: ReamingQuery, settings: EngineSettings = def
 }
 
 export const shavingQuerySchema = z.object({
-  high: lengthField('high', { positive: true }),
-  low: lengthField('low', { positive: true }).optional(),
+  high: lengthField('high', { positive: true, ...lengthBounds.diameterIn }),
+  low: lengthField('low', { positive: true, ...lengthBounds.diameterIn }).optional(),
   /** Radial depth to clean up, instead of low. */
-  depth: lengthField('depth').optional(),
+  depth: lengthField('depth', lengthBounds.radialCutIn).optional(),
   wheel: numberInputField('wheel', { positive: true, max: 360 }).optional(),
-  min: lengthField('min', { positive: true }).optional(),
-  perSurface: lengthField('perSurface', { positive: true }).optional(),
+  min: lengthField('min', { positive: true, ...lengthBounds.diameterIn }).optional(),
+  perSurface: lengthField('perSurface', { positive: true, ...lengthBounds.radialCutIn }).optional(),
 }).superRefine((query, ctx) => {
   if (query.low === undefined && query.depth === undefined) {
     ctx.addIssue({ code: 'custom', path: ['low'], message: 'low (the smallest diameter read around the blank) or depth is required' })
@@ -166,7 +167,7 @@ export const heatFitQuerySchema = z.object({
   unit: temperatureUnitField.default('F'),
   wax: z.string().min(1, 'wax must name a wax formula').optional(),
   batchId: idField('batchId', 'choose a wax batch').optional(),
-  bore: lengthField('bore', { positive: true }).optional(),
+  bore: lengthField('bore', { positive: true, ...lengthBounds.boreIn }).optional(),
 }).superRefine((query, ctx) => {
   if (query.wax !== undefined && query.batchId !== undefined) {
     ctx.addIssue({ code: 'custom', path: ['batchId'], message: 'choose a wax formula or a wax batch, not both' })

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { cylinderFormatTable, standardBlankDimensions, standardCylinderRpm } from './cylinder'
+import { lengthBounds } from './bounds'
 import { lengthField } from './length'
 
 /*
@@ -9,69 +10,76 @@ import { lengthField } from './length'
  * `engineSettingsSchema.parse({})` is a complete, working set and a stored partial set is filled in.
  */
 
-const positiveNumber = (name: string) => z.number({ error: `${name} must be a number` }).positive(`${name} must be more than 0`)
-const nonNegativeNumber = (name: string) => z.number({ error: `${name} must be a number` }).min(0, `${name} cannot be negative`)
-const minorUnits = (name: string) => z.number({ error: `${name} must be a number` }).int(`${name} must be whole minor units (cents)`).min(0, `${name} cannot be negative`)
+// Every figure has an upper bound that no small workshop reaches: past it, the figure is a slip.
+const atMost = (name: string, max: number, unit: string) => `${name} must be at most ${max}${unit ? ` ${unit}` : ''}: check the figure`
+const positiveNumber = (name: string, max: number, unit = '') => z.number({ error: `${name} must be a number` }).positive(`${name} must be more than 0`).max(max, atMost(name, max, unit))
+const nonNegativeNumber = (name: string, max: number, unit = '') => z.number({ error: `${name} must be a number` }).min(0, `${name} cannot be negative`).max(max, atMost(name, max, unit))
+/** Up to 1,000,000.00 in the shop's currency: far beyond any cylinder, parcel or tax line. */
+const MINOR_UNITS_MAX = 100_000_000
+const minorUnits = (name: string) => z.number({ error: `${name} must be a number` }).int(`${name} must be whole minor units (cents)`).min(0, `${name} cannot be negative`).max(MINOR_UNITS_MAX, atMost(name, MINOR_UNITS_MAX, 'minor units'))
+const celsius = (name: string) => z.number({ error: `${name} must be a number` }).min(-60, `${name} must be at least -60 °C`).max(80, `${name} must be at most 80 °C`)
 
+/** Longest list of formulas, tubes, boxes, zones or regions the shop keeps. */
+const LIST_MAX = 50
 const uniqueIds = (rows: readonly { id: string }[]) => new Set(rows.map(row => row.id)).size === rows.length
 const code = z.string({ error: 'enter a code' }).trim().min(1, 'enter a code').max(40, 'at most 40 characters').regex(/^[a-z0-9_-]+$/i, 'letters, digits, - and _ only')
 const name = z.string({ error: 'enter a name' }).trim().min(1, 'enter a name').max(80, 'at most 80 characters')
 
 const formatSettingsSchema = (recordableLengthIn: number) => z.object({
-  recordableLengthIn: lengthField('recordableLengthIn', { positive: true }).default(recordableLengthIn),
+  recordableLengthIn: lengthField('recordableLengthIn', { positive: true, ...lengthBounds.recordedLengthIn }).default(recordableLengthIn),
 })
 
 const speechSettingsSchema = z.object({
   /** About 150 words a minute: from memory. */
-  wordsPerMinute: positiveNumber('wordsPerMinute').default(150),
+  wordsPerMinute: positiveNumber('wordsPerMinute', 400, 'words a minute').default(150),
   /** Silent groove before the first word, and after the last, on every message. */
-  leadInSeconds: nonNegativeNumber('leadInSeconds').default(4),
-  runOutSeconds: nonNegativeNumber('runOutSeconds').default(4),
+  leadInSeconds: nonNegativeNumber('leadInSeconds', 60, 's').default(4),
+  runOutSeconds: nonNegativeNumber('runOutSeconds', 60, 's').default(4),
   /** A message within this last share of the capacity is "tight". */
   tightMargin: z.number().min(0).max(0.5, 'tightMargin is a share of the capacity, at most 0.5').default(0.1),
 })
 
 const reamingSettingsSchema = z.object({
   /** About 1/16 in of seat travel per reaming: common practice, no source. */
-  perReamingIn: lengthField('perReamingIn', { positive: true }).default(1 / 16),
+  perReamingIn: lengthField('perReamingIn', { positive: true, ...lengthBounds.perReamingIn }).default(1 / 16),
   /** Reamings are done in sets of four, then the fit is checked: common practice, no source. */
   setSize: z.number().int('setSize must be a whole number').min(1).max(20).default(4),
   /** Finished overhang about 7/16 in: common practice, no source. */
-  targetOverhangIn: lengthField('targetOverhangIn', { allowNegative: true }).default(7 / 16),
+  targetOverhangIn: lengthField('targetOverhangIn', { allowNegative: true, ...lengthBounds.overhangIn }).default(7 / 16),
 })
 
 const shavingSettingsSchema = z.object({
   /** 45° of the in-feed wheel feeds the cutter 0.003 in: common practice, no source. */
-  infeedPer45DegreesIn: lengthField('infeedPer45DegreesIn', { positive: true }).default(0.003),
+  infeedPer45DegreesIn: lengthField('infeedPer45DegreesIn', { positive: true, ...lengthBounds.radialCutIn }).default(0.003),
   /** Deepest cut per pass about 0.003 in on the radius: collectors' forum practice. */
-  maxCutPerPassIn: lengthField('maxCutPerPassIn', { positive: true }).default(0.003),
+  maxCutPerPassIn: lengthField('maxCutPerPassIn', { positive: true, ...lengthBounds.radialCutIn }).default(0.003),
   /** The shop's own floor: below it a blank is scrapped rather than shaved again. */
-  minimumDiameterIn: lengthField('minimumDiameterIn', { positive: true }).default(2.1),
+  minimumDiameterIn: lengthField('minimumDiameterIn', { positive: true, ...lengthBounds.diameterIn }).default(2.1),
   /** Radial depth taken off to give one fresh surface. */
-  depthPerSurfaceIn: lengthField('depthPerSurfaceIn', { positive: true }).default(0.003),
+  depthPerSurfaceIn: lengthField('depthPerSurfaceIn', { positive: true, ...lengthBounds.radialCutIn }).default(0.003),
 })
 
 const waxFormulaSchema = z.object({
   id: code,
   label: name,
   /** Volumetric thermal expansion coefficient, per kelvin. */
-  volumetricExpansionPerK: positiveNumber('volumetricExpansionPerK'),
+  volumetricExpansionPerK: positiveNumber('volumetricExpansionPerK', 0.01, 'per K'),
 })
 
 const fitSettingsSchema = z.object({
   /** Fit is judged at about 75 °F: common practice, no source. */
   referenceTemperatureF: z.number().min(32).max(120).default(75),
   /** Bore used when none is given: outside diameter less two walls of the standard blank. */
-  boreDiameterIn: lengthField('boreDiameterIn', { positive: true })
+  boreDiameterIn: lengthField('boreDiameterIn', { positive: true, ...lengthBounds.boreIn })
     .default(standardBlankDimensions.outsideDiameterIn - 2 * standardBlankDimensions.wallIn),
   taper: z.object({
     /** Change of diameter per foot of length. About 3/8 in per foot: from memory, UNVERIFIED. */
-    perFootIn: lengthField('taper.perFootIn', { positive: true }).default(3 / 8),
+    perFootIn: lengthField('taper.perFootIn', { positive: true, ...lengthBounds.taperPerFootIn }).default(3 / 8),
     /** Stays true until the shop has measured its own mandrel; shown beside every result that uses it. */
     unverified: z.boolean().default(true),
   }).prefault({}),
   /** Engineering handbook tables (volumetric coefficients; linear ≈ a third). */
-  waxFormulas: z.array(waxFormulaSchema).min(1).refine(uniqueIds, 'wax formula ids must be unique').default([
+  waxFormulas: z.array(waxFormulaSchema).min(1).max(LIST_MAX, `at most ${LIST_MAX} entries`).refine(uniqueIds, 'wax formula ids must be unique').default([
     { id: 'stearic_acid', label: 'Stearic acid', volumetricExpansionPerK: 810e-6 },
     { id: 'paraffin', label: 'Paraffin', volumetricExpansionPerK: 590e-6 },
   ]),
@@ -79,27 +87,27 @@ const fitSettingsSchema = z.object({
 
 const heatSettingsSchema = z.object({
   /** Forecast high (°C) at the destination from which a parcel is shipped only with care. A shop choice. */
-  cautionHighC: z.number().default(27),
+  cautionHighC: celsius('cautionHighC').default(27),
   /** Forecast high (°C) from which a parcel is held back. A shop choice. */
-  holdHighC: z.number().default(32),
+  holdHighC: celsius('holdHighC').default(32),
   /** Both thresholds drop by this much for every day in transit beyond the first. */
-  stricterPerTransitDayC: nonNegativeNumber('stricterPerTransitDayC').default(1),
+  stricterPerTransitDayC: nonNegativeNumber('stricterPerTransitDayC', 20, '°C').default(1),
 }).refine(heat => heat.holdHighC >= heat.cautionHighC, { message: 'holdHighC must not be below cautionHighC', path: ['holdHighC'] })
 
 const dimensionsSchema = z.object({
-  lengthIn: positiveNumber('lengthIn'),
-  widthIn: positiveNumber('widthIn'),
-  heightIn: positiveNumber('heightIn'),
+  lengthIn: positiveNumber('lengthIn', 120, 'in'),
+  widthIn: positiveNumber('widthIn', 120, 'in'),
+  heightIn: positiveNumber('heightIn', 120, 'in'),
 })
 
 const tubeSchema = z.object({
   id: code,
   label: name,
-  insideDiameterIn: positiveNumber('insideDiameterIn'),
-  insideLengthIn: positiveNumber('insideLengthIn'),
-  outsideDiameterIn: positiveNumber('outsideDiameterIn'),
-  outsideLengthIn: positiveNumber('outsideLengthIn'),
-  weightG: nonNegativeNumber('weightG'),
+  insideDiameterIn: positiveNumber('insideDiameterIn', 12, 'in'),
+  insideLengthIn: positiveNumber('insideLengthIn', 24, 'in'),
+  outsideDiameterIn: positiveNumber('outsideDiameterIn', 12, 'in'),
+  outsideLengthIn: positiveNumber('outsideLengthIn', 24, 'in'),
+  weightG: nonNegativeNumber('weightG', 50_000, 'g'),
 })
 
 const boxSchema = z.object({
@@ -107,8 +115,8 @@ const boxSchema = z.object({
   label: name,
   inside: dimensionsSchema,
   /** Board thickness; the outside is the inside plus two walls each way. */
-  wallIn: nonNegativeNumber('wallIn'),
-  weightG: nonNegativeNumber('weightG'),
+  wallIn: nonNegativeNumber('wallIn', 2, 'in'),
+  weightG: nonNegativeNumber('weightG', 50_000, 'g'),
 })
 
 const box = (id: string, lengthIn: number, widthIn: number, heightIn: number, weightG: number) => ({
@@ -121,21 +129,21 @@ const box = (id: string, lengthIn: number, widthIn: number, heightIn: number, we
 
 const packingSettingsSchema = z.object({
   /** At least 2 in on every side: carrier packing guidance. */
-  cushioningIn: z.number().min(2, 'cushioningIn must be at least 2 in (carrier packing guidance)').default(2),
+  cushioningIn: z.number().min(2, 'cushioningIn must be at least 2 in (carrier packing guidance)').max(12, atMost('cushioningIn', 12, 'in')).default(2),
   /** Double-box fragile items: carrier packing guidance. */
   doubleBoxFragile: z.boolean().default(true),
   /** Cubic inches per pound for dimensional weight (139 is the usual US carrier figure; set your carrier's). */
-  dimensionalDivisorIn3PerLb: positiveNumber('dimensionalDivisorIn3PerLb').default(139),
+  dimensionalDivisorIn3PerLb: positiveNumber('dimensionalDivisorIn3PerLb', 1000, 'in³ per lb').default(139),
   /** A cylinder as it leaves the bench; an estimate, weigh your own. */
-  cylinderWeightG: nonNegativeNumber('cylinderWeightG').default(70),
+  cylinderWeightG: nonNegativeNumber('cylinderWeightG', 5000, 'g').default(70),
   /** Cushioning and filler per parcel. */
-  fillerWeightG: nonNegativeNumber('fillerWeightG').default(150),
+  fillerWeightG: nonNegativeNumber('fillerWeightG', 20_000, 'g').default(150),
   /** Most cylinders one parcel takes; also how shipping is counted. */
   cylindersPerParcel: z.number().int().min(1).max(48).default(6),
-  tubes: z.array(tubeSchema).min(1).refine(uniqueIds, 'tube ids must be unique').default([
+  tubes: z.array(tubeSchema).min(1).max(LIST_MAX, `at most ${LIST_MAX} entries`).refine(uniqueIds, 'tube ids must be unique').default([
     { id: 'tube-standard', label: 'Padded tube for a standard cylinder', insideDiameterIn: 2.375, insideLengthIn: 4.5, outsideDiameterIn: 2.75, outsideLengthIn: 4.875, weightG: 35 },
   ]),
-  boxes: z.array(boxSchema).min(1).refine(uniqueIds, 'box ids must be unique').default([
+  boxes: z.array(boxSchema).min(1).max(LIST_MAX, `at most ${LIST_MAX} entries`).refine(uniqueIds, 'box ids must be unique').default([
     box('box-4x4x6', 6, 4, 4, 70),
     box('box-6x6x6', 6, 6, 6, 110),
     box('box-8x6x6', 8, 6, 6, 130),
@@ -175,18 +183,18 @@ const priceSettingsSchema = z.object({
   customMessage: z.object({
     baseMinor: minorUnits('customMessage.baseMinor').default(6500),
     /** Spoken seconds the base price covers. */
-    includedSeconds: nonNegativeNumber('customMessage.includedSeconds').default(60),
+    includedSeconds: nonNegativeNumber('customMessage.includedSeconds', 600, 's').default(60),
     /** For each started 30 s beyond the included length. */
     perExtra30sMinor: minorUnits('customMessage.perExtra30sMinor').default(800),
     fourMinuteSurchargeMinor: minorUnits('customMessage.fourMinuteSurchargeMinor').default(1500),
     rushMinor: minorUnits('customMessage.rushMinor').default(2500),
   }).prefault({}),
-  shippingZones: z.array(shippingZoneSchema).min(1).refine(uniqueIds, 'shipping zone ids must be unique').default([
+  shippingZones: z.array(shippingZoneSchema).min(1).max(LIST_MAX, `at most ${LIST_MAX} entries`).refine(uniqueIds, 'shipping zone ids must be unique').default([
     { id: 'domestic', label: 'Domestic', firstParcelMinor: 1200, additionalParcelMinor: 900 },
     { id: 'north_america', label: 'Canada and Mexico', firstParcelMinor: 2800, additionalParcelMinor: 2200 },
     { id: 'international', label: 'Rest of the world', firstParcelMinor: 4500, additionalParcelMinor: 3800 },
   ]),
-  taxRegions: z.array(taxRegionSchema).min(1).refine(uniqueIds, 'tax region ids must be unique').default([
+  taxRegions: z.array(taxRegionSchema).min(1).max(LIST_MAX, `at most ${LIST_MAX} entries`).refine(uniqueIds, 'tax region ids must be unique').default([
     { id: 'no_tax', label: 'No sales tax collected', rateBasisPoints: 0, taxShipping: false },
     { id: 'home_state', label: 'Home state', rateBasisPoints: 825, taxShipping: true },
   ]),
@@ -202,7 +210,7 @@ export const engineSettingsSchema = z.object({
     two_minute: formatSettingsSchema(cylinderFormatTable.two_minute.defaultRecordableLengthIn).prefault({}),
     four_minute: formatSettingsSchema(cylinderFormatTable.four_minute.defaultRecordableLengthIn).prefault({}),
   }).prefault({}),
-  standardRpm: positiveNumber('standardRpm').default(standardCylinderRpm),
+  standardRpm: positiveNumber('standardRpm', 400, 'rpm').default(standardCylinderRpm),
   speech: speechSettingsSchema.prefault({}),
   reaming: reamingSettingsSchema.prefault({}),
   shaving: shavingSettingsSchema.prefault({}),

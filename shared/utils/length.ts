@@ -7,6 +7,9 @@ export const MILLIMETRES_PER_INCH = 25.4
 /** The finest fraction the trade's rules are marked in. */
 export const INCH_FRACTION_DENOMINATOR = 64
 
+/** "1 3/16 in", "11.1 mm" and their like are short; a longer text is not a reading. */
+const LENGTH_TEXT_MAX_CHARS = 40
+
 const LENGTH_HINT = 'expected inches like 7/16, 1 3/16, 0.4375 or millimetres like 11.1 mm'
 
 export class LengthParseError extends Error {
@@ -93,12 +96,18 @@ function parseQuantity(input: string, quantity: string): Fraction {
  */
 export function parseLengthFraction(input: string | number, options: LengthParseOptions = {}): Fraction {
   if (typeof input === 'number') {
-    if (!Number.isFinite(input)) throw new LengthParseError(String(input), 'not a finite number')
-    if (input < 0 && !options.allowNegative) throw new LengthParseError(String(input), 'a length cannot be negative here')
-    return new Fraction(input)
+    checkLengthNumber(input, options)
+    try {
+      return new Fraction(input)
+    }
+    catch {
+      // fraction.js cannot turn every double into a ratio (1e308 among them).
+      throw new LengthParseError(String(input), 'the number is too large to read as a length')
+    }
   }
   const text = input.trim()
   if (text === '') throw new LengthParseError(input, `nothing was typed; ${LENGTH_HINT}`)
+  if (text.length > LENGTH_TEXT_MAX_CHARS) throw new LengthParseError(`${text.slice(0, 12)}…`, `at most ${LENGTH_TEXT_MAX_CHARS} characters; ${LENGTH_HINT}`)
   let body = text
   let negative = false
   if (/^[-−]/.test(body)) {
@@ -114,11 +123,16 @@ export function parseLengthFraction(input: string | number, options: LengthParse
   return negative ? inches.neg() : inches
 }
 
+function checkLengthNumber(input: number, options: LengthParseOptions) {
+  if (!Number.isFinite(input)) throw new LengthParseError(String(input), 'not a finite number')
+  if (input < 0 && !options.allowNegative) throw new LengthParseError(String(input), 'a length cannot be negative here')
+}
+
 /** A typed length in inches (see `parseLengthFraction` for what is accepted). */
 export function parseLength(input: string | number, options: LengthParseOptions = {}): number {
   // A number is already inches; going through a fraction could only blur it.
   if (typeof input === 'number') {
-    parseLengthFraction(input, options)
+    checkLengthNumber(input, options)
     return input
   }
   const inches = parseLengthFraction(input, options).valueOf()
@@ -169,6 +183,22 @@ export function formatLengthLabel(inches: number): string {
 export interface LengthFieldOptions extends LengthParseOptions {
   /** Reject zero as well as negatives (diameters, lengths of groove). */
   positive?: boolean
+  /** Smallest accepted length in inches (a negative one needs `allowNegative`). */
+  min?: number
+  /** Largest accepted length in inches; `LENGTH_SANITY_LIMIT_IN` when not given. */
+  max?: number
+}
+
+/**
+ * Nothing on a cylinder bench measures anywhere near this: a blank is about 4 3/16 in long and
+ * 2.19 in across. A field without a bound of its own still refuses a larger figure as a slip.
+ */
+export const LENGTH_SANITY_LIMIT_IN = 48
+
+/** A bound as the maker reads it: `6 in (152.4 mm)`. */
+function boundLabel(inches: number): string {
+  const places = Number.isInteger(inches) ? 0 : Math.abs(inches) < 0.01 ? 4 : 3
+  return `${Number(inches.toFixed(places))} in (${Number(inchesToMillimetres(inches).toFixed(2))} mm)`
 }
 
 /**
@@ -185,10 +215,15 @@ export function lengthField(name: string, options: LengthFieldOptions = {}) {
     .transform((value, ctx) => {
       try {
         const inches = parseLength(value, options)
-        if (options.positive && inches <= 0) {
-          ctx.addIssue({ code: 'custom', message: `${name} must be more than 0 in` })
+        const fail = (message: string) => {
+          ctx.addIssue({ code: 'custom', message })
           return z.NEVER
         }
+        if (options.positive && inches <= 0) return fail(`${name} must be more than 0 in`)
+        const max = options.max ?? LENGTH_SANITY_LIMIT_IN
+        const min = options.min ?? (options.allowNegative ? -max : 0)
+        if (inches > max) return fail(`${name} must be at most ${boundLabel(max)}: check the figure`)
+        if (inches < min) return fail(`${name} must be at least ${boundLabel(min)}: check the figure`)
         return inches
       }
       catch (error) {

@@ -1,3 +1,4 @@
+import { PLAN_STEPS_MAX } from './bounds'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
 import { formatInches, formatLengthLabel } from './length'
@@ -18,7 +19,8 @@ const SLACK = 1e-9
 /** Bench temperatures further than this from the reference make the reading unreliable. */
 const FIT_TEMPERATURE_TOLERANCE_F = 5
 
-export type ReamingPlanStatus = 'plan' | 'at_fit' | 'past_fit'
+/** `check_figures`: more reamings than any blank takes (over PLAN_STEPS_MAX): the figures are wrong, not the bore. */
+export type ReamingPlanStatus = 'plan' | 'at_fit' | 'past_fit' | 'check_figures'
 
 export interface ReamingPlanInput {
   overhangIn: number
@@ -94,6 +96,11 @@ export function reamingPlan(input: ReamingPlanInput, settings: EngineSettings = 
   }
 
   const sets = Math.ceil(reamings / setSize)
+  if (reamings > PLAN_STEPS_MAX) {
+    // No blank takes this many: a reading or a setting is mistyped. Said, not listed, so no figure can make the plan endless.
+    warnings.unshift(`More than ${PLAN_STEPS_MAX} reamings (${reamings}) to the wanted fit: check the figures (the overhang reading, the target and the travel per reaming).`)
+    return { ...base, status: 'check_figures', reamings, sets, steps: [], warnings }
+  }
   const steps: ReamingStep[] = []
   for (let set = 1; set <= sets; set++) {
     const afterReamings = Math.min(set * setSize, reamings)

@@ -1,3 +1,4 @@
+import { PLAN_STEPS_MAX } from './bounds'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
 import { formatInches } from './length'
@@ -81,13 +82,19 @@ export function shavingPlan(input: ShavingPlanInput, settings: EngineSettings = 
   const depthIn = depthToCleanUp(input)
   // The slack keeps (2.200 − 2.194) ÷ 2 ÷ 0.003 at one pass, not two.
   const passes = Math.max(1, Math.ceil(depthIn / infeedIn - 1e-6))
+  // A plan past PLAN_STEPS_MAX passes is a mistyped figure: it is said below, never listed pass by pass.
   const steps: ShavingPass[] = []
-  for (let pass = 1; pass <= passes; pass++) steps.push({ pass, diameterIn: input.highDiameterIn - 2 * pass * infeedIn })
+  if (passes <= PLAN_STEPS_MAX) {
+    for (let pass = 1; pass <= passes; pass++) steps.push({ pass, diameterIn: input.highDiameterIn - 2 * pass * infeedIn })
+  }
   const totalCutIn = passes * infeedIn
   const diameterAfterIn = input.highDiameterIn - 2 * totalCutIn
   const surfacesLeft = Math.max(0, Math.floor((diameterAfterIn - minimumDiameterIn) / (2 * perSurfaceIn) + 1e-6))
 
   const warnings: string[] = []
+  if (passes > PLAN_STEPS_MAX) {
+    warnings.push(`More than ${PLAN_STEPS_MAX} passes (${passes}) to clean up: check the figures (the diameters read and the wheel setting).`)
+  }
   if (infeedIn > maxCutPerPassIn + SLACK) {
     warnings.push(`${formatInches(infeedIn, 4)} in per pass is deeper than the ${formatInches(maxCutPerPassIn, 4)} in on the radius that collectors' forum practice advises: turn the wheel no more than ${Math.round(wheelDegreesForInfeed(maxCutPerPassIn, infeedPer45DegreesIn))}° a pass.`)
   }

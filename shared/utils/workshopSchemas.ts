@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { numberInputField } from './benchSchemas'
+import { lengthBounds } from './bounds'
 import { blankCodePattern, blankStates } from './blankLifecycle'
 import { cylinderFormats } from './cylinder'
 import { idField, idParamsSchema } from './ids'
@@ -52,7 +53,7 @@ export const blankCreateSchema = z.object({
   batchId: idField('batchId', 'choose a wax batch'),
   format: z.enum(cylinderFormats, { error: 'format must be two_minute or four_minute' }),
   count: wholeNumber('count', 1, BLANKS_PER_CREATE_MAX).default(1),
-  diameterIn: lengthField('diameterIn', { positive: true }).optional(),
+  diameterIn: lengthField('diameterIn', { positive: true, ...lengthBounds.diameterIn }).optional(),
   location: workshopText('location', 120).default(''),
 })
 export type BlankCreateInput = z.input<typeof blankCreateSchema>
@@ -88,14 +89,14 @@ export const blankCodeParamsSchema = z.object({
 export const blankPatchSchema = z.object({
   location: workshopText('location', 120).optional(),
   notes: workshopText('notes', 2000).optional(),
-  diameterIn: lengthField('diameterIn', { positive: true }).nullable().optional(),
+  diameterIn: lengthField('diameterIn', { positive: true, ...lengthBounds.diameterIn }).nullable().optional(),
 }).refine(patch => Object.values(patch).some(value => value !== undefined), { message: 'change at least one of location, notes or diameterIn', path: ['body'] })
 export type BlankPatchInput = z.input<typeof blankPatchSchema>
 
 /** One reaming session: the overhang read before and after, the reamings done, the room's temperature. */
 export const blankReamingSchema = z.object({
-  overhangBeforeIn: lengthField('overhangBeforeIn', { allowNegative: true }),
-  overhangAfterIn: lengthField('overhangAfterIn', { allowNegative: true }),
+  overhangBeforeIn: lengthField('overhangBeforeIn', { allowNegative: true, ...lengthBounds.overhangIn }),
+  overhangAfterIn: lengthField('overhangAfterIn', { allowNegative: true, ...lengthBounds.overhangIn }),
   reamings: wholeNumber('reamings', 1, 40),
   roomTemperatureF: numberInputField('roomTemperatureF', { min: 32, max: 120 }),
   /** A reaming after shaving has begun: the maker accepts that the current surface is spent. */
@@ -112,12 +113,12 @@ export type BlankReamingInput = z.input<typeof blankReamingSchema>
 /** One shaving session on the current surface: the wheel setting, the passes, the diameter after. */
 export const blankShavingSchema = z.object({
   /** Largest diameter read before shaving; the blank's recorded diameter when left out. */
-  diameterBeforeIn: lengthField('diameterBeforeIn', { positive: true }).optional(),
+  diameterBeforeIn: lengthField('diameterBeforeIn', { positive: true, ...lengthBounds.diameterIn }).optional(),
   /** Smallest diameter read around the blank, for the depth the plan must clean up. */
-  lowDiameterIn: lengthField('lowDiameterIn', { positive: true }).optional(),
+  lowDiameterIn: lengthField('lowDiameterIn', { positive: true, ...lengthBounds.diameterIn }).optional(),
   wheelDegrees: numberInputField('wheelDegrees', { positive: true, max: 360 }).default(45),
   passes: wholeNumber('passes', 1, 50).default(1),
-  diameterAfterIn: lengthField('diameterAfterIn', { positive: true }),
+  diameterAfterIn: lengthField('diameterAfterIn', { positive: true, ...lengthBounds.diameterIn }),
   notes: workshopText('notes', 1000).default(''),
 })
 export type BlankShavingInput = z.input<typeof blankShavingSchema>
@@ -132,7 +133,7 @@ export const blankReshaveSchema = z.object({
   reason: workshopText('reason', 500).default(''),
   wheelDegrees: numberInputField('wheelDegrees', { positive: true, max: 360 }).optional(),
   passes: wholeNumber('passes', 1, 50).optional(),
-  diameterAfterIn: lengthField('diameterAfterIn', { positive: true }).optional(),
+  diameterAfterIn: lengthField('diameterAfterIn', { positive: true, ...lengthBounds.diameterIn }).optional(),
 })
 export type BlankReshaveInput = z.input<typeof blankReshaveSchema>
 

@@ -1,34 +1,17 @@
-import { readdirSync } from 'node:fs'
-import { join, relative } from 'node:path'
 import { url } from '@nuxt/test-utils/e2e'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
-import { Client, rootDir, signedIn, useTestServer } from './harness'
+import { Client, signedIn, useTestServer } from './harness'
+import { fillPattern, routeTable } from './routeTable'
 
 await useTestServer()
 
-/**
- * The route table, read from the files under server/api/workshop at test time, so a new route is
- * checked the day it is added: `blanks/[code]/reaming.post.ts` → POST /api/workshop/blanks/1/reaming.
- */
-function workshopRoutes(): { method: string, path: string, file: string, pattern: string }[] {
-  const base = join(rootDir, 'server/api/workshop')
-  const files: string[] = []
-  const walk = (dir: string) => {
-    for (const entry of readdirSync(dir, { withFileTypes: true })) {
-      if (entry.isDirectory()) walk(join(dir, entry.name))
-      else if (entry.name.endsWith('.ts')) files.push(join(dir, entry.name))
-    }
-  }
-  walk(base)
-  return files.sort().map((file) => {
-    const name = relative(base, file).replace(/\.ts$/, '')
-    const match = /^(.*)\.(get|post|put|patch|delete)$/.exec(name)
-    const [route, method] = match ? [match[1]!, match[2]!.toUpperCase()] : [name, 'GET']
-    const raw = route.split('/').filter((segment, index, all) => !(segment === 'index' && index === all.length - 1))
-    const segments = raw.map(segment => segment.replace(/\[\.\.\.[^\]]+\]/g, 'x').replace(/\[[^\]]+\]/g, '1'))
-    return { method, path: ['/api/workshop', ...segments].join('/'), file: relative(rootDir, file), pattern: ['/api/workshop', ...raw].join('/') }
-  })
+// The workshop's routes from the route table (read from the files, so a new route is checked the day it is added):
+// `blanks/[code]/reaming.post.ts` → POST /api/workshop/blanks/1/reaming.
+function workshopRoutes() {
+  return routeTable('api', '/api')
+    .filter(route => route.pattern.startsWith('/api/workshop/'))
+    .map(route => ({ ...route, path: fillPattern(route.pattern, () => '1') }))
 }
 
 const routes = workshopRoutes()
