@@ -1,4 +1,5 @@
 import { mkdtempSync } from 'node:fs'
+import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -10,6 +11,16 @@ import { startStripeFake } from '../../fakes/stripe/server'
 
 export const rootDir = fileURLToPath(new URL('../..', import.meta.url))
 
+/** A port nothing listens on now, for a server whose address a test must know before it starts. */
+export function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer().once('error', reject).listen(0, '127.0.0.1', () => {
+      const { port } = probe.address() as { port: number }
+      probe.close(() => resolve(port))
+    })
+  })
+}
+
 export type MailFake = Awaited<ReturnType<typeof startMailFake>>
 export const webhookSecret = 'whsec_test_harness_secret'
 
@@ -17,7 +28,7 @@ export const webhookSecret = 'whsec_test_harness_secret'
  * Starts the mail fake in this process on free ports, then the built server (`npm run build` first)
  * with an in-memory database and fast mail retries. Call at the top level of a test file.
  */
-export async function useTestServer(env: Record<string, string> = {}) {
+export async function useTestServer(env: Record<string, string> = {}, options: { port?: number } = {}) {
   const mailDir = mkdtempSync(join(tmpdir(), 'gw-mail-'))
   const mail = { fake: await startMailFake({ smtpPort: 0, httpPort: 0, dir: mailDir, quiet: true }), dir: mailDir }
   const payments = await startStripeFake({ port: 0, webhookUrl: null, webhookSecret, quiet: true, retry: { attempts: 6, baseMs: 200 } })
@@ -28,6 +39,7 @@ export async function useTestServer(env: Record<string, string> = {}) {
     server: true,
     browser: false,
     setupTimeout: 120_000,
+    ...(options.port ? { port: options.port } : {}),
     nuxtConfig: { nitro: { output: { dir: resolve(rootDir, process.env.GW_OUTPUT_DIR ?? '.output') } } },
     env: {
       NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
