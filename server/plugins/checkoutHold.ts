@@ -1,11 +1,15 @@
-// A mistyped hold (e.g. "30m") would otherwise surface only as failed checkouts; refuse to start instead,
-// with a message naming the setting.
+// Settings that would otherwise surface only later refuse the start instead, with a message naming the
+// setting: a mistyped hold (e.g. "30m") as failed checkouts, the published local webhook secret beside a
+// real payment key as forged payments believed.
 export default defineNitroPlugin(() => {
-  try {
-    checkoutHoldMinutes()
-  }
-  catch (error) {
-    console.error(`[checkout] ${error instanceof Error ? error.message : error}`)
-    throw error
+  const checks: [string, () => unknown][] = [['checkout', checkoutHoldMinutes], ['payments', checkPaymentSettings]]
+  for (const [area, check] of checks) {
+    try {
+      check()
+    }
+    catch (error) {
+      console.error(`[${area}] ${error instanceof Error ? error.message : error}`)
+      throw error
+    }
   }
 })

@@ -1,21 +1,24 @@
 import type Stripe from 'stripe'
-import { and, eq, sql } from 'drizzle-orm'
+import { and, eq, isNull, or, sql } from 'drizzle-orm'
 import { orderEvents, orders, refunds } from '../db/schema'
 import type { Transaction } from './db'
 
 interface Handled {
   outcome: string
   orderId?: number
+  // Set when the event does not belong to the order it names (or names none): nothing was changed.
+  ignored?: string
   // Calls to the payment service happen after the transaction commits.
   followUp?: () => Promise<unknown>
 }
 
 async function findOrder(tx: Transaction, by: { number?: string | null, paymentIntent?: string | null }) {
-  if (by.number) {
+  // Metadata is whatever the sender wrote: only a string can name an order.
+  if (typeof by.number === 'string' && by.number) {
     const [order] = await tx.select().from(orders).where(eq(orders.number, by.number))
     if (order) return order
   }
-  if (by.paymentIntent) {
+  if (typeof by.paymentIntent === 'string' && by.paymentIntent) {
     const [order] = await tx.select().from(orders).where(eq(orders.paymentIntentId, by.paymentIntent))
     if (order) return order
   }
@@ -24,13 +27,60 @@ async function findOrder(tx: Transaction, by: { number?: string | null, paymentI
 
 const intentId = (value: string | { id: string } | null | undefined) => (typeof value === 'string' ? value : value?.id ?? null)
 
+const ignore = (reason: string, orderId?: number): Handled => ({ outcome: `ignored: ${reason}`, ignored: reason, orderId })
+const NO_ORDER = 'names no order of this shop'
+// What a sender wrote, as it goes into a log line or an outcome: quoted and cut short.
+const shown = (value: unknown) => JSON.stringify(String(value).slice(0, 80))
+
+type OrderRow = typeof orders.$inferSelect
+const sameCurrency = (given: string | null | undefined, order: OrderRow) => (given ?? '').toLowerCase() === order.currency.toLowerCase()
+
+/**
+ * Why a checkout session is not the payment page this order was opened with, or null when it is. An
+ * event's metadata only names an order, and anyone able to sign an event (or another integration on the
+ * same account) can name any; the session id stored when the page was opened, and the total and
+ * currency asked for, say whether this payment is really that order's.
+ */
+function sessionMismatch(session: { id: string, amount_total: number | null, currency: string | null }, order: OrderRow): string | null {
+  if (!order.checkoutSessionId || session.id !== order.checkoutSessionId) return `session ${shown(session.id)} is not the payment page of order ${order.number}`
+  if (session.amount_total !== order.totalMinor) return `amount ${shown(session.amount_total)} is not the total ${order.totalMinor} of order ${order.number}`
+  if (!sameCurrency(session.currency, order)) return `currency ${shown(session.currency)} is not the currency ${order.currency} of order ${order.number}`
+  return null
+}
+
+/**
+ * Why a charge or refund does not belong to this order, or null when it does: it must be of the payment
+ * the order was paid with (stored when its session was settled), so an order not yet paid has none.
+ */
+function paymentMismatch(paymentIntent: string | null, currency: string | null | undefined, order: OrderRow): string | null {
+  if (!order.paymentIntentId || paymentIntent !== order.paymentIntentId) return `payment ${shown(paymentIntent)} is not the payment of order ${order.number}`
+  if (!sameCurrency(currency, order)) return `currency ${shown(currency)} is not the currency ${order.currency} of order ${order.number}`
+  return null
+}
+
+/**
+ * Why a failed payment is not one for this order's payment page, or null. Before an order is paid the
+ * shop knows no payment id of its own, so the payment service is asked which payment the order's
+ * session is using (cheap checks first, so a forged event rarely costs a call).
+ */
+async function failedPaymentMismatch(intent: Stripe.PaymentIntent, order: OrderRow): Promise<string | null> {
+  if (intent.amount !== order.totalMinor) return `amount ${shown(intent.amount)} is not the total ${order.totalMinor} of order ${order.number}`
+  if (!sameCurrency(intent.currency, order)) return `currency ${shown(intent.currency)} is not the currency ${order.currency} of order ${order.number}`
+  if (!order.checkoutSessionId) return `order ${order.number} has no payment page`
+  const session = await useStripe().checkout.sessions.retrieve(order.checkoutSessionId)
+  if (intentId(session.payment_intent) !== intent.id) return `payment ${shown(intent.id)} is not the payment of order ${order.number}'s page`
+  return null
+}
+
 /**
  * A checkout session the payment service reports complete and paid: the order becomes paid (once),
  * its confirmation is queued and its production tickets made. Used by the webhook and by the sweep.
  */
 export async function settlePaidSession(tx: Transaction, session: Stripe.Checkout.Session): Promise<Handled> {
   const order = await findOrder(tx, { number: session.metadata?.order_number ?? session.client_reference_id })
-  if (!order) return { outcome: 'no such order' }
+  if (!order) return ignore(NO_ORDER)
+  const mismatch = sessionMismatch(session, order)
+  if (mismatch) return ignore(mismatch, order.id)
   const paymentIntent = intentId(session.payment_intent)
   const paid = await moveOrder(tx, order.id, ['awaiting_payment'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent })
   if (paid) {
@@ -71,7 +121,9 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
     case 'checkout.session.expired': {
       const session = paymentEvent.data.object
       const order = await findOrder(tx, { number: session.metadata?.order_number ?? session.client_reference_id })
-      if (!order) return { outcome: 'no such order' }
+      if (!order) return ignore(NO_ORDER)
+      const mismatch = sessionMismatch(session, order)
+      if (mismatch) return ignore(mismatch, order.id)
       const released = await releaseReservation(tx, order.id, 'The payment page expired unpaid.')
       return { outcome: released ? 'released' : `ignored: order is ${order.status}`, orderId: order.id }
     }
@@ -80,8 +132,10 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       // page expires (checkout.session.expired releases it); the customer is told either way.
       const intent = paymentEvent.data.object
       const order = await findOrder(tx, { number: intent.metadata?.order_number })
-      if (!order) return { outcome: 'no such order' }
+      if (!order) return ignore(NO_ORDER)
       if (order.status !== 'awaiting_payment') return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
+      const mismatch = await failedPaymentMismatch(intent, order)
+      if (mismatch) return ignore(mismatch, order.id)
       await tx.insert(orderEvents).values({ orderId: order.id, fromStatus: order.status, toStatus: order.status, note: `Card declined: ${intent.last_payment_error?.message ?? 'no reason given'}` })
       await queueMail(tx, {
         to: order.email,
@@ -101,9 +155,12 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
     case 'charge.refunded': {
       const charge = paymentEvent.data.object
       const order = await findOrder(tx, { number: charge.metadata?.order_number, paymentIntent: intentId(charge.payment_intent) })
-      if (!order) return { outcome: 'no such order' }
+      if (!order) return ignore(NO_ORDER)
+      const mismatch = paymentMismatch(intentId(charge.payment_intent), charge.currency, order)
+        ?? (charge.amount === order.totalMinor ? null : `charge amount ${shown(charge.amount)} is not the total ${order.totalMinor} of order ${order.number}`)
+      if (mismatch) return ignore(mismatch, order.id)
       // Newer API versions leave the refund list out of the charge: ask for it.
-      const listed = charge.refunds?.data ?? (await useStripe().refunds.list({ payment_intent: intentId(charge.payment_intent) ?? undefined, charge: intentId(charge.payment_intent) ? undefined : charge.id, limit: 100 })).data
+      const listed = charge.refunds?.data ?? (await useStripe().refunds.list({ payment_intent: order.paymentIntentId!, limit: 100 })).data
       return { outcome: await applyRefunds(tx, order, charge.amount_refunded, listed), orderId: order.id }
     }
     case 'charge.refund.updated': {
@@ -111,13 +168,16 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       // charge). Settled like the refunds listed on a charge; the refunded total is not touched here.
       const refund = paymentEvent.data.object
       const order = await findOrder(tx, { number: refund.metadata?.order_number, paymentIntent: intentId(refund.payment_intent) })
-      if (!order) return { outcome: 'no such order' }
+      if (!order) return ignore(NO_ORDER)
+      const mismatch = paymentMismatch(intentId(refund.payment_intent), refund.currency, order)
+      if (mismatch) return ignore(mismatch, order.id)
       const outcome = await applyRefunds(tx, order, 0, [refund])
       if (refund.status === 'failed' || refund.status === 'canceled') {
         // The charge now says how much really went back: the one place the refunded total may go down.
         const chargeId = typeof refund.charge === 'string' ? refund.charge : refund.charge?.id
         const charge = chargeId ? await useStripe().charges.retrieve(chargeId) : null
-        if (charge) {
+        // Only this order's own charge may set what it has had back.
+        if (charge && intentId(charge.payment_intent) === order.paymentIntentId) {
           await tx.update(orders).set({ refundedMinor: sql`least(${orders.totalMinor}, ${charge.amount_refunded})`, updatedAt: new Date() }).where(eq(orders.id, order.id))
         }
         return { outcome: `refund ${refund.status}`, orderId: order.id }
@@ -129,10 +189,17 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
   }
 }
 
-async function applyRefunds(tx: Transaction, order: typeof orders.$inferSelect, amountRefunded: number, providerRefunds: Stripe.Refund[]) {
+async function applyRefunds(tx: Transaction, order: OrderRow, amountRefunded: number, providerRefunds: Stripe.Refund[]) {
   for (const providerRefund of providerRefunds) {
+    // Only a refund of this order's payment settles one of the refunds the shop asked for, and only the
+    // one it was made for: same amount, and not already tied to another refund of the payment service.
+    if (intentId(providerRefund.payment_intent) !== order.paymentIntentId) continue
     const localId = Number(providerRefund.metadata?.refund_id)
-    const match = Number.isInteger(localId) && localId > 0 ? eq(refunds.id, localId) : eq(refunds.providerRefundId, providerRefund.id)
+    const match = and(
+      Number.isInteger(localId) && localId > 0 ? eq(refunds.id, localId) : eq(refunds.providerRefundId, providerRefund.id),
+      eq(refunds.amountMinor, providerRefund.amount),
+      or(isNull(refunds.providerRefundId), eq(refunds.providerRefundId, providerRefund.id)),
+    )
     if (providerRefund.status === 'failed' || providerRefund.status === 'canceled') {
       // Not paid back after all: the refund no longer counts against what is left to refund or
       // restock. One the shop had already counted as paid back is left for the maker to look at.
