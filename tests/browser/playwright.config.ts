@@ -11,7 +11,8 @@ export default defineConfig({
   workers: 1,
   reporter: [['list']],
   use: {
-    baseURL: `http://127.0.0.1:${port}`,
+    // The address the launcher prints by default; the server itself listens on 127.0.0.1.
+    baseURL: `http://localhost:${port}`,
     launchOptions: {
       executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
       args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'],
@@ -28,7 +29,6 @@ export default defineConfig({
     stderr: 'pipe',
     env: {
       PORT: String(port),
-      NUXT_SITE_URL: `http://127.0.0.1:${port}`,
       NUXT_DB_DIR: 'memory://',
       NUXT_SESSION_PASSWORD: 'browser-test-session-password-0123456789abcdef',
       NUXT_MAIL_POLL_MS: '200',

@@ -5,7 +5,7 @@ import { demoAccounts } from '../../shared/utils/demoAccounts'
 
 const shots = 'tests/browser/report'
 const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
-const site = `http://127.0.0.1:${port}`
+const site = `http://localhost:${port}`
 const paymentFake = `http://127.0.0.1:${port + 1003}`
 
 async function noSeriousAxe(page: Page) {
