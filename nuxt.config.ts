@@ -3,7 +3,7 @@ import { fileURLToPath } from 'node:url'
 const migrationsDir = fileURLToPath(new URL('./drizzle', import.meta.url))
 
 export default defineNuxtConfig({
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint', 'nuxt-security'],
   devtools: { enabled: false },
   app: {
     head: {
@@ -14,6 +14,11 @@ export default defineNuxtConfig({
         { name: 'description', content: 'New wax cylinder records, blanks and personal messages, made and tested by hand.' },
       ],
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+      script: [
+        // Before any bundle runs: zod's schemas skip their speed-up through `new Function`, whose probe the
+        // CSP below (no 'unsafe-eval') would report as a violation on every page (README "Security").
+        { innerHTML: 'globalThis.__zod_globalConfig = Object.assign(globalThis.__zod_globalConfig || {}, { jitless: true })', tagPriority: 'critical' },
+      ],
     },
   },
   css: ['@fontsource/fraunces/600.css', '@fontsource/fraunces/700.css', '@fontsource/ibm-plex-sans/400.css', '@fontsource/ibm-plex-sans/500.css', '@fontsource/ibm-plex-sans/600.css'],
@@ -55,7 +60,71 @@ export default defineNuxtConfig({
       // (the session's `url`), so no publishable key is needed, and in fake mode nothing outside loads.
     },
   },
+  routeRules: {
+    // Answers with personal data (orders, addresses, accounts, exports) are never stored by a cache.
+    '/api/**': { headers: { 'cache-control': 'no-store', 'content-security-policy': 'default-src \'none\'; frame-ancestors \'none\'' } },
+    '/account': { headers: { 'cache-control': 'no-store' } },
+    '/account/**': { headers: { 'cache-control': 'no-store' } },
+    '/orders/**': { headers: { 'cache-control': 'no-store' } },
+    '/certificates/**': { headers: { 'cache-control': 'no-store' } },
+    '/checkout/**': { headers: { 'cache-control': 'no-store' } },
+    '/cart': { headers: { 'cache-control': 'no-store' } },
+    '/dispatch': { headers: { 'cache-control': 'no-store' } },
+    '/dispatch/**': { headers: { 'cache-control': 'no-store' } },
+    '/workshop': { headers: { 'cache-control': 'no-store' } },
+    '/workshop/**': { headers: { 'cache-control': 'no-store' } },
+    '/setup': { headers: { 'cache-control': 'no-store' } },
+    '/reset': { headers: { 'cache-control': 'no-store' } },
+  },
   compatibilityDate: '2026-11-01',
+  // Response headers (README "Security"). Pages: a CSP with a fresh nonce per request for inline
+  // scripts, no framing, no referrer to other sites. The module's request-size limiter, rate limiter,
+  // CORS handler and XSS filter are off: server/middleware/body-limit.ts and each upload route check
+  // sizes, server/utils/throttle.ts limits sign-in, no other origin may call the API, and the XSS
+  // filter would refuse honest text with "<" in it and read whole uploads before their size is checked.
+  security: {
+    nonce: true,
+    headers: {
+      contentSecurityPolicy: {
+        'default-src': ['\'self\''],
+        'base-uri': ['\'none\''],
+        'object-src': ['\'none\''],
+        'frame-ancestors': ['\'none\''],
+        'frame-src': ['\'none\''],
+        'form-action': ['\'self\''],
+        // Every script is our own bundle or an inline script carrying this response's nonce.
+        'script-src': ['\'self\'', '\'nonce-{{nonce}}\''],
+        // No inline event handlers but one: @nuxt/image's server-rendered <img onerror> marking a photo that
+        // failed before the page woke up, allowed by its hash alone.
+        'script-src-attr': ['\'unsafe-hashes\'', '\'sha256-bwK6T5wZVTANitXbrTsel7kl/PyCjCd/Dq5Qoz3imjM=\''],
+        // Vue renders style="" attributes (bars, swatches, chart sizes).
+        'style-src': ['\'self\'', '\'unsafe-inline\''],
+        // data: for the blank labels' barcode SVG; blob: for a recording chosen on the analysis page.
+        'img-src': ['\'self\'', 'data:', 'blob:'],
+        'media-src': ['\'self\'', 'blob:'],
+        'font-src': ['\'self\'', 'data:'],
+        'connect-src': ['\'self\''],
+        'worker-src': ['\'self\''],
+        'manifest-src': ['\'self\''],
+        // Served over plain http on localhost in the demo; a TLS proxy in front adds its own.
+        'upgrade-insecure-requests': false,
+      },
+      crossOriginEmbedderPolicy: 'credentialless',
+      crossOriginOpenerPolicy: 'same-origin',
+      crossOriginResourcePolicy: 'same-origin',
+      referrerPolicy: 'same-origin',
+      strictTransportSecurity: false,
+      xContentTypeOptions: 'nosniff',
+      xFrameOptions: 'DENY',
+    },
+    hidePoweredBy: true,
+    corsHandler: false,
+    rateLimiter: false,
+    requestSizeLimiter: false,
+    xssValidator: false,
+    allowedMethodsRestricter: false,
+    removeLoggers: false,
+  },
   // GW_BUILD_DIR / GW_OUTPUT_DIR let two builds of one checkout live side by side (e.g. a second worktree's tests).
   ...(process.env.GW_BUILD_DIR ? { buildDir: process.env.GW_BUILD_DIR } : {}),
   nitro: {
