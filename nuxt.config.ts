@@ -25,6 +25,9 @@ export default defineNuxtConfig({
   runtimeConfig: {
     // Every key can be set at run time with NUXT_<KEY> (e.g. NUXT_DB_DIR, NUXT_SMTP_PORT).
     dbDir: '.data/db',
+    // The sign-in cookie lives 30 days from its last renewal; server/utils/auth.ts renews it, with the
+    // session's row, at most once a day of use. The row decides: after sign-out the cookie is dead.
+    session: { cookie: { maxAge: 60 * 60 * 24 * 30 } },
     // Uploaded photos and audio samples (Nitro storage `uploads`): `fs` keeps them in `uploadsDir`;
     // `build` keeps the mount of nitro.storage.uploads below as built (e.g. shared S3-compatible storage).
     uploadsDriver: 'fs',

@@ -9,9 +9,6 @@ export const users = pgTable('users', {
   name: text('name').notNull(),
   passwordHash: text('password_hash').notNull(),
   role: userRole('role').notNull().default('collector'),
-  // Bumped on a password change or reset: sealed cookies carrying an older value stop working. A role
-  // change needs no bump: the role is read from this row on every request, so it applies at once.
-  sessionVersion: integer('session_version').notNull().default(1),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 }, table => [
@@ -45,10 +42,13 @@ export const mailOutbox = pgTable('mail_outbox', {
   index('mail_outbox_due').on(table.status, table.nextAttemptAt),
 ])
 
+// One row per sign-in that failed, or that is still being checked (`pending`): an attempt is logged
+// before its password is checked so that servers sharing this database count it at once.
 export const signInFailures = pgTable('sign_in_failures', {
   id: serial('id').primaryKey(),
   email: text('email').notNull(),
   address: text('address').notNull(),
+  pending: boolean('pending').notNull().default(false),
   at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
 }, table => [
   index('sign_in_failures_email').on(table.email, table.at),
@@ -66,13 +66,30 @@ export const resetRequests = pgTable('reset_requests', {
   index('reset_requests_address').on(table.address, table.at),
 ])
 
+// A link works only while it is its user's newest (server/api/auth/reset.post.ts); a password change
+// deletes the unused ones.
 export const passwordResets = pgTable('password_resets', {
   tokenHash: text('token_hash').primaryKey(),
   userId: integer('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
   expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
   usedAt: timestamp('used_at', { withTimezone: true }),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
-})
+}, table => [
+  index('password_resets_user').on(table.userId, table.createdAt),
+])
+
+// One row per signed-in browser. The sealed cookie carries the session's random id; only its SHA-256
+// is stored, so a copy of the database cannot be turned into cookies. Signing out deletes the row.
+export const userSessions = pgTable('user_sessions', {
+  idHash: text('id_hash').primaryKey(),
+  userId: integer('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  // Moved forward at most once a day while the session is used (server/utils/auth.ts).
+  lastSeenAt: timestamp('last_seen_at', { withTimezone: true }).notNull().defaultNow(),
+  expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+}, table => [
+  index('user_sessions_user').on(table.userId),
+])
 
 export const cylinderFormat = pgEnum('cylinder_format', ['two_minute', 'four_minute'])
 export const productKind = pgEnum('product_kind', ['blank', 'recorded', 'custom'])

@@ -1,4 +1,4 @@
-import { and, count, eq, gte, min } from 'drizzle-orm'
+import { and, count, eq, gte, min, or } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import { resetRequests, signInFailures } from '../db/schema'
 
@@ -49,29 +49,60 @@ async function fullWindow(log: Log, event: H3Event, email: string, windowMs: num
 
 const signInPaused = (wait: string) => `Too many failed sign-ins. For your safety, sign-in is paused for ${wait}; you can also reset your password.`
 
-/**
- * Before a password is checked: throws 429 when this account or this address has failed too often
- * in the last 15 minutes. Otherwise the attempt is logged as a failure *before* the check (and
- * cleared by clearSignInFailures when the password is right), so parallel guesses cannot slip past
- * the limit: an attempt goes ahead only if, with it logged, the window is not over the limit.
- */
-export async function beginSignInAttempt(event: H3Event, email: string): Promise<void> {
-  const limits = { email: perAccountLimit, address: perAddressLimit }
-  const full = await fullWindow(signInFailures, event, email, signInWindowMs, limits)
-  if (full) throw tooMany(event, full.oldest, signInWindowMs, signInPaused)
-  const db = await useDB()
-  const [logged] = await db.insert(signInFailures).values({ email, address: clientAddress(event) }).returning({ id: signInFailures.id })
-  const over = await fullWindow(signInFailures, event, email, signInWindowMs, limits, 1)
-  if (over) {
-    // Others got in first: this attempt is refused unchecked, so it is not a failure.
-    await db.delete(signInFailures).where(eq(signInFailures.id, logged!.id))
-    throw tooMany(event, over.oldest, signInWindowMs, signInPaused)
+// Attempts on one account run one after another in this process (a queue per e-mail), so the count an
+// attempt starts from already holds the outcome of every earlier one: only failures need counting, and
+// right passwords sent at the same moment never crowd each other out.
+const accountQueues = new Map<string, Promise<void>>()
+
+async function oneAtATime<T>(key: string, work: () => Promise<T>): Promise<T> {
+  const run = (accountQueues.get(key) ?? Promise.resolve()).then(work)
+  const settled = run.then(() => undefined, () => undefined)
+  accountQueues.set(key, settled)
+  try {
+    return await run
+  }
+  finally {
+    if (accountQueues.get(key) === settled) accountQueues.delete(key)
   }
 }
 
+/**
+ * One sign-in under its limits: 429 when this account (5) or this address (20) failed too often in the
+ * last 15 minutes; otherwise `check` (the password check, null when wrong) runs and its outcome is kept:
+ * a failure stays logged, a success clears the account's failures.
+ */
+export async function throttledSignIn<T>(event: H3Event, email: string, check: () => Promise<T | null>): Promise<T | null> {
+  return oneAtATime(email, async () => {
+    const limits = { email: perAccountLimit, address: perAddressLimit }
+    const full = await fullWindow(signInFailures, event, email, signInWindowMs, limits)
+    if (full) throw tooMany(event, full.oldest, signInWindowMs, signInPaused)
+    // Logged (pending) before the check and counted again: other servers on this database count the
+    // attempt while it runs, and attempts they start at the same moment cannot all slip past the limit.
+    const db = await useDB()
+    const [logged] = await db.insert(signInFailures).values({ email, address: clientAddress(event), pending: true }).returning({ id: signInFailures.id })
+    const over = await fullWindow(signInFailures, event, email, signInWindowMs, limits, 1)
+    if (over) {
+      // Others got in first: this attempt is refused unchecked, so it is not a failure.
+      await db.delete(signInFailures).where(eq(signInFailures.id, logged!.id))
+      throw tooMany(event, over.oldest, signInWindowMs, signInPaused)
+    }
+    // Should the check break off (a database error), the row stays pending and counted: it may have been a guess.
+    const outcome = await check()
+    if (outcome === null) {
+      await db.update(signInFailures).set({ pending: false }).where(eq(signInFailures.id, logged!.id))
+    }
+    else {
+      // Attempts still pending on other servers stay: each settles its own row.
+      await db.delete(signInFailures).where(and(eq(signInFailures.email, email), or(eq(signInFailures.id, logged!.id), eq(signInFailures.pending, false))))
+    }
+    return outcome
+  })
+}
+
+/** Forgets an account's settled failures (after a password reset, which proved the mailbox). */
 export async function clearSignInFailures(email: string) {
   const db = await useDB()
-  await db.delete(signInFailures).where(eq(signInFailures.email, email))
+  await db.delete(signInFailures).where(and(eq(signInFailures.email, email), eq(signInFailures.pending, false)))
 }
 
 /**

@@ -6,16 +6,16 @@ let decoyHash: Promise<string> | undefined
 
 export default defineEventHandler(async (event) => {
   const input = await readBodyWith(event, loginSchema)
-  await beginSignInAttempt(event, input.email)
-  const db = await useDB()
-  const [user] = await db.select().from(users).where(sql`lower(${users.email}) = ${input.email}`).limit(1)
-  decoyHash ??= hashPassword('decoy-password-for-timing')
-  const valid = await verifyPassword(user?.passwordHash ?? await decoyHash, input.password)
-  if (!user || !valid) {
-    // The attempt was logged as a failure before the check; it stays.
+  const user = await throttledSignIn(event, input.email, async () => {
+    const db = await useDB()
+    const [found] = await db.select().from(users).where(sql`lower(${users.email}) = ${input.email}`).limit(1)
+    decoyHash ??= hashPassword('decoy-password-for-timing')
+    const valid = await verifyPassword(found?.passwordHash ?? await decoyHash, input.password)
+    return found && valid ? found : null
+  })
+  if (!user) {
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'The e-mail or the password is not right.' })
   }
-  await clearSignInFailures(input.email)
   await signIn(event, user)
   return { id: user.id, email: user.email, name: user.name, role: user.role }
 })

@@ -1,4 +1,4 @@
-import { eq, sql } from 'drizzle-orm'
+import { eq } from 'drizzle-orm'
 import { users } from '../../db/schema'
 
 export default defineEventHandler(async (event) => {
@@ -10,10 +10,12 @@ export default defineEventHandler(async (event) => {
     throw fieldError('currentPassword', 'the current password is not right')
   }
   const passwordHash = await hashPassword(input.newPassword)
-  // A new session version signs out every other browser that held the old password.
-  const [updated] = await db.update(users)
-    .set({ passwordHash, sessionVersion: sql`${users.sessionVersion} + 1`, updatedAt: new Date() })
-    .where(eq(users.id, user.id)).returning()
-  await signIn(event, updated!)
+  await db.transaction(async (tx) => {
+    await tx.update(users).set({ passwordHash, updatedAt: new Date() }).where(eq(users.id, user.id))
+    // Every browser that held the old password is signed out, and unused reset links die with it.
+    await endSessionsAndResetLinks(tx, user.id)
+  })
+  // The person who just proved the password stays signed in here, on a new session.
+  await signIn(event, user)
   return { changed: true }
 })

@@ -23,7 +23,7 @@ export default defineEventHandler(async (event) => {
         content: {
           heading: 'A new password for your account',
           paragraphs: [
-            `Someone (we hope you) asked to reset the password of ${user.email}. The link below works once, for ${Math.round(ttlSeconds / 60)} minutes.`,
+            `Someone (we hope you) asked to reset the password of ${user.email}. The link below works once, for ${Math.round(ttlSeconds / 60)} minutes, and only until you ask for another.`,
             'If you did not ask for this, ignore this message: your password stays as it is.',
           ],
           action: { label: 'Choose a new password', url: `${config.siteUrl}/reset?token=${token}` },
