@@ -105,7 +105,11 @@ export async function signOut(event: H3Event) {
 
 async function endThisSession(event: H3Event) {
   const sessionId = (await getUserSession(event)).secure?.sessionId
-  if (!sessionId) return
+  if (sessionId) await endSession(sessionId)
+}
+
+/** Ends one session by the id its cookie carries (also when nuxt-auth-utils clears a cookie itself). */
+export async function endSession(sessionId: string) {
   const db = await useDB()
   await db.delete(userSessions).where(eq(userSessions.idHash, hashed(sessionId)))
 }

@@ -41,6 +41,13 @@ describe('sessions end on the server', () => {
     expect(await statuses(phone)).toEqual([200, 200])
   })
 
+  it('the sign-in module\'s own cookie clearing (DELETE /api/_auth/session) ends the session too', async () => {
+    const { client } = await register('module-clear')
+    const replay = copyOf(client)
+    expect((await client.request('/api/_auth/session', { method: 'DELETE' })).status).toBe(200)
+    expect(await statuses(replay)).toEqual([401, 401])
+  })
+
   it('sign out everywhere ends every session of the account, this one included', async () => {
     const { client: laptop, email, password } = await register('everywhere')
     const phone = await signedIn(email, password)
