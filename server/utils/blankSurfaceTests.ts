@@ -1,4 +1,3 @@
-import type { H3Event } from 'h3'
 import type { ZodType } from 'zod'
 import { surfaceTests } from '../db/schema'
 import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceAnalysisOptions } from './audio'
@@ -7,38 +6,11 @@ import type { Transaction } from './db'
 
 export type SurfaceTestRow = typeof surfaceTests.$inferSelect
 
-export interface SurfaceWavUpload {
-  bytes: Buffer
-  fileName: string | undefined
-  /** The text fields sent beside the file. */
-  fields: Record<string, string>
-}
-
 const statusMessages: Record<number, string> = {
   400: 'Invalid input',
   413: 'Payload Too Large',
   415: 'Unsupported Media Type',
   422: 'Unprocessable Content',
-}
-
-/**
- * The play-through WAV from a multipart request (field `file`, other fields as text). The declared
- * size is checked before a byte is read: the multipart parser holds the whole body in memory.
- */
-export async function readSurfaceWavUpload(event: H3Event): Promise<SurfaceWavUpload> {
-  checkDeclaredSize(event, 'surface_test')
-  if (!/^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')) {
-    throw fieldError('file', 'send the WAV as multipart/form-data in a field named "file"')
-  }
-  const parts = await readMultipartFormData(event)
-  const file = parts?.find(part => part.name === 'file' && part.filename !== undefined)
-  if (!file) throw fieldError('file', 'choose the WAV file of the play-through')
-  if (file.data.byteLength > uploadLimit('surface_test').maxBytes) throw tooLarge('surface_test')
-  const fields: Record<string, string> = {}
-  for (const part of parts ?? []) {
-    if (part.name && part.name !== 'file' && part.filename === undefined) fields[part.name] = part.data.toString('utf8')
-  }
-  return { bytes: file.data, fileName: file.filename, fields }
 }
 
 /** Form fields checked like a JSON body: a 400 naming each field. Empty fields count as left out. */

@@ -1,5 +1,4 @@
 import { and, desc, eq, gte } from 'drizzle-orm'
-import type { H3Event } from 'h3'
 import { z } from 'zod'
 import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceThresholds } from './audio'
 import { blanks, recorders, testCuts } from '../db/schema'
@@ -119,24 +118,6 @@ export const testCutFieldsSchema = z.object({
   rpm: z.coerce.number({ error: 'rpm must be a number' }).refine(rpm => [120, 144, 160].includes(rpm), 'rpm must be 120, 144 or 160').default(160),
   cutAt: z.iso.datetime({ offset: true, error: 'cutAt must be a date and time' }).optional(),
 })
-
-/** The recording (field `file`) and the text fields of a multipart test-cut upload; the size is checked first. */
-export async function readTestCutUpload(event: H3Event): Promise<{ fields: Record<string, string>, file: { bytes: Uint8Array, name: string } | null }> {
-  checkDeclaredSize(event, 'audio')
-  if (!/^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')) {
-    throw fieldError('file', 'send the recording as multipart/form-data in a field named "file"')
-  }
-  const parts = await readMultipartFormData(event) ?? []
-  const fields: Record<string, string> = {}
-  let file: { bytes: Uint8Array, name: string } | null = null
-  for (const part of parts) {
-    if (part.name === 'file' && part.filename !== undefined) {
-      if (part.data.byteLength > 0) file = { bytes: part.data, name: fileLabel(part.filename, 'test-cut.wav') }
-    }
-    else if (part.name) fields[part.name] = part.data.toString('utf8')
-  }
-  return { fields, file }
-}
 
 /** Analyses a test-cut WAV like a surface test; a file we cannot read is a 4xx naming the file. */
 export function analyseTestCut(bytes: Uint8Array, rpm: number, thresholds: SurfaceThresholds): SurfaceAnalysis {

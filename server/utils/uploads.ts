@@ -7,6 +7,7 @@ import type { Storage } from 'unstorage'
 import type { UploadLimit, UploadPurpose } from '#shared/utils/catalogueSchemas'
 import fsDriver from 'unstorage/drivers/fs'
 import { files } from '../db/schema'
+import { AudioInputError, decodeWav } from './audio'
 import type { Database, Transaction } from './db'
 
 export type StoredFile = typeof files.$inferSelect
@@ -65,9 +66,10 @@ export function fileLabel(clientName: string | undefined, fallback: string): str
 }
 
 /**
- * A browser sends a file's bare name; a name with a path in it ("../", a slash or a backslash) or control characters
- * comes from a hand-made request, so it is refused outright rather than quietly relabelled. (The name is
- * never used as a path either way: files are stored under generated ids.)
+ * The one rule for every upload's file name. A browser sends a file's bare name; a name with a path in it
+ * ("../", a slash or a backslash) or control characters comes from a hand-made request, so it is refused
+ * outright rather than quietly relabelled. (The name is never used as a path either way: files are stored
+ * under generated ids, and `fileLabel` keeps a cleaned copy as the label.)
  */
 export function checkClientFileName(name: string | undefined) {
   const given = name ?? ''
@@ -76,6 +78,45 @@ export function checkClientFileName(name: string | undefined) {
   }
   // eslint-disable-next-line no-control-regex
   if (/[\u0000-\u001f\u007f]/.test(given)) throw fieldError('file', 'the file name contains control characters; rename the file. Nothing was stored.')
+}
+
+export interface UploadedFilePart {
+  data: Buffer
+  /** The name the client gave, checked by `checkClientFileName`; label it with `fileLabel`. */
+  filename: string
+}
+
+/**
+ * Reads a multipart upload: one file in the field `file`, any other fields as text. Every route that
+ * takes a file reads it here, so each upload gets the same checks: the declared size against the
+ * purpose's limit before a byte is read (the parser holds the whole body in memory), one file at most,
+ * its name (`checkClientFileName`), not empty, not over the limit, and text fields free of control
+ * characters (`rejectControlCharacters`, as for JSON bodies). With `required` a missing file is a
+ * 400 naming `file` with that text; without it `file` is null. Each refusal is a 4xx naming its field.
+ */
+export async function readUploadForm(event: H3Event, purpose: UploadPurpose, options: { required?: string } = {}): Promise<{ file: UploadedFilePart | null, fields: Record<string, string> }> {
+  checkDeclaredSize(event, purpose)
+  if (!/^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')) {
+    throw fieldError('file', 'send the file as multipart/form-data in a field named "file"')
+  }
+  const parts = await readMultipartFormData(event) ?? []
+  const fileParts = parts.filter(part => part.name === 'file' && part.filename !== undefined)
+  if (fileParts.length > 1) throw fieldError('file', 'send one file at a time; nothing was stored')
+  const fields: Record<string, string> = {}
+  for (const part of parts) {
+    if (part.name && part.name !== 'file' && part.filename === undefined) fields[part.name] = part.data.toString('utf8')
+  }
+  // The text fields get the check every JSON body gets, before any schema reads them.
+  rejectControlCharacters(fields)
+  const part = fileParts[0]
+  if (!part) {
+    if (options.required) throw fieldError('file', options.required)
+    return { file: null, fields }
+  }
+  checkClientFileName(part.filename)
+  if (part.data.byteLength === 0) throw fieldError('file', 'the file is empty (0 bytes); choose the file again. Nothing was stored.')
+  if (part.data.byteLength > uploadLimit(purpose).maxBytes) throw tooLarge(purpose)
+  return { file: { data: part.data, filename: part.filename ?? '' }, fields }
 }
 
 interface Sniffed {
@@ -87,10 +128,12 @@ interface Sniffed {
 const startsWith = (bytes: Uint8Array, signature: number[], offset = 0) => signature.every((value, i) => bytes[offset + i] === value)
 const ascii = (text: string) => [...text].map(ch => ch.charCodeAt(0))
 
-/** An MPEG audio frame header (11 sync bits, a valid version, layer, bit rate and sample rate). */
-function isMpegFrame(bytes: Uint8Array): boolean {
-  const [b0 = 0, b1 = 0, b2 = 0] = bytes
-  return b0 === 0xff && (b1 & 0xe0) === 0xe0 && ((b1 >> 3) & 3) !== 1 && ((b1 >> 1) & 3) !== 0 && (b2 >> 4) !== 15 && ((b2 >> 2) & 3) !== 3
+/**
+ * The 11 sync bits an MPEG audio frame starts with. Only a claim: an audio sample is then read frame by
+ * frame (`mp3Problem`), so sync bytes in front of anything else are refused as a damaged MP3.
+ */
+function startsWithMpegSync(bytes: Uint8Array): boolean {
+  return bytes[0] === 0xff && ((bytes[1] ?? 0) & 0xe0) === 0xe0
 }
 
 /** What the bytes are, by their first bytes alone: the declared type and the extension are not trusted. */
@@ -100,7 +143,7 @@ export function sniffFile(bytes: Uint8Array): Sniffed | null {
   if (startsWith(bytes, ascii('RIFF')) && startsWith(bytes, ascii('WEBP'), 8)) return { purpose: 'photo', mime: 'image/webp', format: 'WebP' }
   if (startsWith(bytes, ascii('RIFF')) && startsWith(bytes, ascii('WAVE'), 8)) return { purpose: 'audio', mime: 'audio/wav', format: 'WAV' }
   if (startsWith(bytes, ascii('OggS'))) return { purpose: 'audio', mime: 'audio/ogg', format: 'Ogg' }
-  if (startsWith(bytes, ascii('ID3')) || isMpegFrame(bytes)) return { purpose: 'audio', mime: 'audio/mpeg', format: 'MP3' }
+  if (startsWith(bytes, ascii('ID3')) || startsWithMpegSync(bytes)) return { purpose: 'audio', mime: 'audio/mpeg', format: 'MP3' }
   return null
 }
 
@@ -198,25 +241,18 @@ export async function storeFile(db: Database | Transaction, input: { id?: string
 }
 
 /**
- * One upload from a multipart request (field `file`). The size is checked from Content-Length
- * before parsing (the parser holds the whole body in memory), the kind from the bytes themselves.
- * Photos are re-encoded; audio samples are kept as sent. Files start private: they become public
- * when attached to a product.
+ * One upload from a multipart request (field `file`, read by `readUploadForm`). The kind is decided
+ * by the bytes themselves. Photos are re-encoded; audio samples are kept as sent once they have been
+ * read through to the end (`checkAudioSample`). Files start private: they are shown to everyone only
+ * while a product in the shop uses them.
  */
 export async function receiveUpload(event: H3Event, purpose: UploadPurpose, userId: number) {
-  checkDeclaredSize(event, purpose)
-  if (!/^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')) {
-    throw fieldError('file', 'send the file as multipart/form-data in a field named "file"')
-  }
-  const parts = await readMultipartFormData(event)
-  const part = parts?.find(candidate => candidate.name === 'file' && candidate.filename !== undefined)
-  if (!part) throw fieldError('file', 'choose a file to upload')
-  checkClientFileName(part.filename)
-  if (part.data.byteLength === 0) throw fieldError('file', 'the file is empty')
-  if (part.data.byteLength > uploadLimit(purpose).maxBytes) throw tooLarge(purpose)
+  const { file } = await readUploadForm(event, purpose, { required: 'choose a file to upload' })
+  const part = file!
 
   const sniffed = sniffFile(part.data)
   if (!sniffed || sniffed.purpose !== purpose) throw unsupported(purpose, describeRefused(part.data))
+  if (purpose === 'audio') checkAudioSample(part.data, sniffed.mime)
   const prepared: Prepared = purpose === 'photo' ? await reencodePhoto(part.data) : { data: part.data, mime: sniffed.mime }
   const extension = prepared.mime.split('/')[1]!.replace('mpeg', 'mp3')
   const originalName = fileLabel(part.filename, `${purpose}.${extension}`)
@@ -233,6 +269,188 @@ export async function receiveUpload(event: H3Event, purpose: UploadPurpose, user
     width: prepared.width ?? null,
     height: prepared.height ?? null,
   }
+}
+
+const damagedSample = (message: string, status = 400) => createError({
+  statusCode: status,
+  statusMessage: status === 415 ? 'Unsupported Media Type' : 'Invalid input',
+  message: `file: ${message} Nothing was stored.`,
+  data: { fields: { file: message } },
+})
+
+/**
+ * Reads an audio sample through to its end before it is kept, so that what the shop plays is a whole,
+ * playable file: a WAV through the surface-test decoder (every chunk in place, the data chunk complete
+ * and holding samples), an MP3 frame by frame, an Ogg page by page. Throws a 400 (415 for a WAV in an
+ * encoding we do not take) naming `file`.
+ */
+export function checkAudioSample(bytes: Uint8Array, mime: string) {
+  if (mime === 'audio/wav') {
+    try {
+      decodeWav(bytes)
+    }
+    catch (error) {
+      if (!(error instanceof AudioInputError)) throw error
+      const reason = ({
+        'eight-bit': 'This WAV file is 8-bit; save the sample as 16- or 24-bit PCM.',
+        'bit-depth': 'This WAV file\'s sample size is not one we take; save the sample as 16- or 24-bit PCM.',
+        'too-long': 'This WAV file is over 10 minutes long; a sample is a short excerpt.',
+      } as Record<string, string>)[error.code] ?? error.message.replace(/\s*Export the play-through[^.]*\.\s*$/, '')
+      throw damagedSample(reason, error.statusCode === 415 ? 415 : 400)
+    }
+    return
+  }
+  const problem = mime === 'audio/mpeg' ? mp3Problem(bytes) : mime === 'audio/ogg' ? oggProblem(bytes) : 'This is not an audio file we take.'
+  if (problem) throw damagedSample(problem)
+}
+
+// MPEG-1/2/2.5 audio frame headers: bit rates in kbit/s by [version 1 or 2][layer 1–3][index], sample rates by version.
+const MPEG_BITRATES = {
+  v1: [
+    [0, 32, 64, 96, 128, 160, 192, 224, 256, 288, 320, 352, 384, 416, 448],
+    [0, 32, 48, 56, 64, 80, 96, 112, 128, 160, 192, 224, 256, 320, 384],
+    [0, 32, 40, 48, 56, 64, 80, 96, 112, 128, 160, 192, 224, 256, 320],
+  ],
+  v2: [
+    [0, 32, 48, 56, 64, 80, 96, 112, 128, 144, 160, 176, 192, 224, 256],
+    [0, 8, 16, 24, 32, 40, 48, 56, 64, 80, 96, 112, 128, 144, 160],
+    [0, 8, 16, 24, 32, 40, 48, 56, 64, 80, 96, 112, 128, 144, 160],
+  ],
+}
+const MPEG_SAMPLE_RATES: Record<number, number[]> = { 3: [44100, 48000, 32000], 2: [22050, 24000, 16000], 0: [11025, 12000, 8000] }
+
+interface MpegFrame {
+  /** Version bits, layer bits and sample-rate index: the same in every frame of one stream. */
+  stream: number
+  length: number
+}
+
+/** The MPEG audio frame whose header starts at `offset`, or null if these 4 bytes are not one. */
+function mpegFrameAt(bytes: Uint8Array, offset: number): MpegFrame | null {
+  if (offset + 4 > bytes.length) return null
+  const b1 = bytes[offset + 1]!
+  const b2 = bytes[offset + 2]!
+  const b3 = bytes[offset + 3]!
+  if (bytes[offset] !== 0xff || (b1 & 0xe0) !== 0xe0) return null
+  const version = (b1 >> 3) & 3
+  const layerBits = (b1 >> 1) & 3
+  const bitrateIndex = b2 >> 4
+  const rateIndex = (b2 >> 2) & 3
+  // Reserved version, layer, sample rate or emphasis; free-format (index 0) and the forbidden index 15.
+  if (version === 1 || layerBits === 0 || rateIndex === 3 || (b3 & 3) === 2 || bitrateIndex === 0 || bitrateIndex === 15) return null
+  const layer = 4 - layerBits
+  const kbps = MPEG_BITRATES[version === 3 ? 'v1' : 'v2'][layer - 1]![bitrateIndex]!
+  const sampleRate = MPEG_SAMPLE_RATES[version]![rateIndex]!
+  const padding = (b2 >> 1) & 1
+  const length = layer === 1
+    ? (Math.floor((12 * kbps * 1000) / sampleRate) + padding) * 4
+    : Math.floor(((layer === 3 && version !== 3 ? 72 : 144) * kbps * 1000) / sampleRate) + padding
+  return { stream: (b1 & 0x1e) | (rateIndex << 5), length }
+}
+
+/** Size of the ID3v2 tag at `offset` (header, body and footer), or 0 if there is none. */
+function id3v2Size(bytes: Uint8Array, offset: number): number {
+  if (offset + 10 > bytes.length || bytes[offset] !== 0x49 || bytes[offset + 1] !== 0x44 || bytes[offset + 2] !== 0x33) return 0
+  const major = bytes[offset + 3]!
+  const size = bytes.subarray(offset + 6, offset + 10)
+  if (major < 2 || major > 4 || bytes[offset + 4] === 0xff || size.some(byte => byte >= 0x80)) return -1
+  const body = (size[0]! << 21) | (size[1]! << 14) | (size[2]! << 7) | size[3]!
+  return 10 + body + ((bytes[offset + 5]! & 0x10) ? 10 : 0)
+}
+
+/**
+ * What is wrong with an MP3, or null: after any ID3v2 tags, MPEG audio frames of one stream must
+ * follow each other to the end of the file (or to a trailing APEv2 and/or ID3v1 tag), at least two.
+ */
+export function mp3Problem(bytes: Uint8Array): string | null {
+  let offset = 0
+  for (let size = id3v2Size(bytes, 0); size !== 0; size = id3v2Size(bytes, offset)) {
+    if (size < 0) return 'This MP3 file\'s ID3 tag is damaged.'
+    offset += size
+    if (offset > bytes.length) return 'This MP3 file is cut short: it ends inside its ID3 tag.'
+  }
+  let end = bytes.length
+  const tagAt = (at: number, text: string) => at >= offset && [...text].every((ch, i) => bytes[at + i] === ch.charCodeAt(0))
+  if (tagAt(end - 128, 'TAG')) end -= 128
+  if (tagAt(end - 32, 'APETAGEX')) {
+    const view = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength)
+    const apeSize = view.readUInt32LE(end - 32 + 12) + ((view.readUInt32LE(end - 32 + 20) & 0x80000000) ? 32 : 0)
+    if (apeSize < 32 || end - apeSize < offset) return 'This MP3 file\'s APE tag is damaged.'
+    end -= apeSize
+  }
+  let frames = 0
+  let stream: number | null = null
+  while (offset < end) {
+    const frame = mpegFrameAt(bytes, offset)
+    if (!frame || (stream !== null && frame.stream !== stream)) {
+      return frames === 0
+        ? 'This is not a playable MP3 file: no MPEG audio frame starts where its audio should.'
+        : `This MP3 file is damaged: after ${frames} audio frame${frames === 1 ? '' : 's'}, byte ${offset} is not the start of another.`
+    }
+    if (offset + frame.length > end) return `This MP3 file is cut short: its last audio frame needs ${frame.length} bytes but only ${end - offset} arrived. Upload the whole file again.`
+    stream = frame.stream
+    offset += frame.length
+    frames++
+  }
+  if (frames < 2) return 'This MP3 file holds no audio.'
+  return null
+}
+
+let oggCrcTable: Uint32Array | undefined
+
+/** The Ogg page checksum: CRC-32 with polynomial 0x04c11db7, not reflected, starting at 0. */
+function oggCrc(page: Uint8Array): number {
+  oggCrcTable ??= Uint32Array.from({ length: 256 }, (_, n) => {
+    let value = n << 24
+    for (let bit = 0; bit < 8; bit++) value = (value & 0x80000000) ? (value << 1) ^ 0x04c11db7 : value << 1
+    return value >>> 0
+  })
+  let crc = 0
+  for (let i = 0; i < page.length; i++) {
+    // Bytes 22–25 hold the checksum itself and count as zeros.
+    const byte = i >= 22 && i < 26 ? 0 : page[i]!
+    crc = ((crc << 8) ^ oggCrcTable[((crc >>> 24) ^ byte) & 0xff]!) >>> 0
+  }
+  return crc
+}
+
+/**
+ * What is wrong with an Ogg file, or null: pages with good checksums one after another to the end of
+ * the file, the first opening a Vorbis, Opus or FLAC stream, the last closing it, audio in between.
+ */
+export function oggProblem(bytes: Uint8Array): string | null {
+  const view = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength)
+  let offset = 0
+  let pages = 0
+  let lastFlags = 0
+  let audio = false
+  while (offset < bytes.length) {
+    if (offset + 27 > bytes.length) return 'This Ogg file is cut short: it ends inside a page header. Upload the whole file again.'
+    if (view.toString('latin1', offset, offset + 4) !== 'OggS' || bytes[offset + 4] !== 0) {
+      return pages === 0 ? 'This is not a playable Ogg file.' : `This Ogg file is damaged: after ${pages} page${pages === 1 ? '' : 's'}, byte ${offset} is not the start of another.`
+    }
+    const segments = bytes[offset + 26]!
+    if (offset + 27 + segments > bytes.length) return 'This Ogg file is cut short: it ends inside a page header. Upload the whole file again.'
+    let bodyLength = 0
+    for (let i = 0; i < segments; i++) bodyLength += bytes[offset + 27 + i]!
+    const pageEnd = offset + 27 + segments + bodyLength
+    if (pageEnd > bytes.length) return 'This Ogg file is cut short: its last page is incomplete. Upload the whole file again.'
+    const page = bytes.subarray(offset, pageEnd)
+    if (oggCrc(page) !== view.readUInt32LE(offset + 22)) return `This Ogg file is damaged: page ${pages + 1} fails its checksum.`
+    const flags = bytes[offset + 5]!
+    if (pages === 0) {
+      const first = view.toString('latin1', offset + 27 + segments, Math.min(pageEnd, offset + 27 + segments + 8))
+      if (!(flags & 2)) return 'This Ogg file is damaged: its first page does not open a stream.'
+      if (!['\x01vorbis', 'OpusHead', '\x7fFLAC'].some(codec => first.startsWith(codec))) return 'This Ogg file holds no Vorbis, Opus or FLAC audio.'
+    }
+    if (view.readBigInt64LE(offset + 6) > 0n) audio = true
+    lastFlags = flags
+    pages++
+    offset = pageEnd
+  }
+  if (!(lastFlags & 4)) return 'This Ogg file is cut short: its stream never ends. Upload the whole file again.'
+  if (!audio) return 'This Ogg file holds no audio.'
+  return null
 }
 
 export async function readStoredFile(id: string): Promise<Buffer | null> {

@@ -1,11 +1,21 @@
-import { eq } from 'drizzle-orm'
-import { files } from '../../db/schema'
+import { and, eq, or, sql } from 'drizzle-orm'
+import { files, products } from '../../db/schema'
 
 const notFound = () => createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such file.' })
 
+/** Whether a product the shop shows (not hidden) has this file among its photos or as its sample. */
+async function shownInShop(db: Awaited<ReturnType<typeof useDB>>, id: string): Promise<boolean> {
+  const [row] = await db.select({ id: products.id }).from(products).where(and(
+    eq(products.hidden, false),
+    or(eq(products.sampleFileId, id), sql`${products.photoFileIds} @> ${JSON.stringify([id])}::jsonb`),
+  )).limit(1)
+  return row !== undefined
+}
+
 /**
- * A stored file by its id. Public files (a product's photos and sample) go to anyone; the rest only
- * to makers, and to everyone else the file does not exist. Audio is seekable: one byte range per request.
+ * A stored file by its id. A public file (a product's photos and sample) goes to anyone while a product
+ * in the shop shows it: once its product is hidden (or lets it go), only makers get it. The rest only to
+ * makers; to everyone else the file does not exist. Audio is seekable: one byte range per request.
  */
 export default defineEventHandler(async (event) => {
   const id = getRouterParam(event, 'id') ?? ''
@@ -13,7 +23,8 @@ export default defineEventHandler(async (event) => {
   const db = await useDB()
   const [file] = await db.select().from(files).where(eq(files.id, id))
   if (!file) throw notFound()
-  if (!file.isPublic && (await currentUser(event))?.role !== 'maker') throw notFound()
+  const forEveryone = file.isPublic && await shownInShop(db, id)
+  if (!forEveryone && (await currentUser(event))?.role !== 'maker') throw notFound()
 
   const data = await readStoredFile(id)
   if (!data) throw notFound()
@@ -22,8 +33,10 @@ export default defineEventHandler(async (event) => {
     'Content-Disposition': inlineDisposition(file.originalName),
     'X-Content-Type-Options': 'nosniff',
     'Content-Security-Policy': 'default-src \'none\'; img-src \'self\'; media-src \'self\'; style-src \'unsafe-inline\'; sandbox',
-    // Bytes under an id never change; a private file is checked again on every use.
-    'Cache-Control': file.isPublic ? 'public, max-age=31536000, immutable' : 'private, no-cache',
+    // Bytes under an id never change, but a product can be hidden at any time: a cache may keep a file
+    // and must ask again before each use (a 304 while it may still have it), so a hidden product's
+    // photos and sample stop at once. A file only the maker sees stays out of shared caches.
+    'Cache-Control': forEveryone ? 'public, no-cache' : 'private, no-cache',
     'ETag': `"${file.id}"`,
     'Accept-Ranges': 'bytes',
   })

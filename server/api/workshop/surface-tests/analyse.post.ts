@@ -5,8 +5,8 @@
  */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')
-  const upload = await readSurfaceWavUpload(event)
+  const upload = await readUploadForm(event, 'surface_test', { required: 'choose the WAV file of the play-through' })
   const { rpm } = surfaceFieldsWith(upload.fields, surfaceAnalyseFieldsSchema)
   const thresholds = await getSetting('surface')
-  return analyseSurfaceUpload(upload.bytes, { rpm, thresholds })
+  return analyseSurfaceUpload(upload.file!.data, { rpm, thresholds })
 })

@@ -6,7 +6,7 @@
  */
 export default defineEventHandler(async (event) => {
   const maker = await requireRole(event, 'maker')
-  const { fields, file } = await readTestCutUpload(event)
+  const { fields, file } = await readUploadForm(event, 'audio')
   const parsed = testCutFieldsSchema.safeParse(fields)
   if (!parsed.success) {
     const issue = parsed.error.issues[0]!
@@ -18,11 +18,11 @@ export default defineEventHandler(async (event) => {
   const recorder = await findRecorder(db, input.recorderId)
   // Checked before the analysis too, so a refused blank costs no work; the locked check below decides.
   if (input.blankCode) await blankForTestCut(db, input.blankCode)
-  const analysis = analyseTestCut(file.bytes, input.rpm, await testCutThresholds(db))
+  const analysis = analyseTestCut(file.data, input.rpm, await testCutThresholds(db))
   const cut = await db.transaction(async (tx) => {
     const blank = input.blankCode ? await blankForTestCut(tx, input.blankCode, true) : null
     const stored = await storeTestCut(tx, {
-      bytes: file.bytes, name: file.name, analysis, recorderId: recorder.id, blankId: blank?.id ?? null, notes: input.notes,
+      bytes: file.data, name: fileLabel(file.filename, 'test-cut.wav'), analysis, recorderId: recorder.id, blankId: blank?.id ?? null, notes: input.notes,
       cutAt: input.cutAt ? new Date(input.cutAt) : undefined, userId: maker.id,
     })
     if (blank) await markBlankTestCut(tx, blank, { id: stored.id, recorderName: recorder.name }, maker.id)

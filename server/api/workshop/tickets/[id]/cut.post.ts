@@ -9,7 +9,7 @@ export default defineEventHandler(async (event) => {
   const maker = await requireRole(event, 'maker')
   const { id } = paramsWith(event, idParamsSchema)
   const multipart = /^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')
-  const upload = multipart ? await readTestCutUpload(event) : null
+  const upload = multipart ? await readUploadForm(event, 'audio') : null
   const parsed = ticketCutSchema.safeParse(upload ? upload.fields : await readBody(event).catch(() => null) ?? {})
   if (!parsed.success) {
     const issue = parsed.error.issues[0]!
@@ -21,7 +21,7 @@ export default defineEventHandler(async (event) => {
   if (!recorder.inService) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `recorderId: ${recorder.name} is out of service; choose a recorder in service.`, data: { fields: { recorderId: 'out of service' } } })
   const [product] = await db.select({ rpm: products.rpm }).from(tickets).innerJoin(orderItems, eq(orderItems.id, tickets.orderItemId))
     .innerJoin(products, eq(products.id, orderItems.productId)).where(eq(tickets.id, id))
-  const analysis = upload?.file ? analyseTestCut(upload.file.bytes, product?.rpm ?? 160, await testCutThresholds(db)) : null
+  const analysis = upload?.file ? analyseTestCut(upload.file.data, product?.rpm ?? 160, await testCutThresholds(db)) : null
   const cutAt = input.cutAt ? new Date(input.cutAt) : new Date()
 
   return await db.transaction(async (tx) => {
@@ -30,7 +30,7 @@ export default defineEventHandler(async (event) => {
     if (problem) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: problem })
     const blank = await blankReadyForCut(tx, ticket)
     const testCut = upload?.file && analysis
-      ? await storeTestCut(tx, { bytes: upload.file.bytes, name: upload.file.name, analysis, recorderId: recorder.id, blankId: blank.id, notes: input.notes || `The cut of ticket #${ticket.id}.`, cutAt, userId: maker.id })
+      ? await storeTestCut(tx, { bytes: upload.file.data, name: fileLabel(upload.file.filename, 'test-cut.wav'), analysis, recorderId: recorder.id, blankId: blank.id, notes: input.notes || `The cut of ticket #${ticket.id}.`, cutAt, userId: maker.id })
       : null
     await markTicketCut(tx, ticket, blank, { recorderId: recorder.id, recorderName: recorder.name, cutAt, testCutId: testCut?.id ?? null, note: input.notes }, maker.id)
     return { id: ticket.id, stage: 'cut' as const, blankCode: blank.code, recorderName: recorder.name, cutAt, testCut: testCut && { id: testCut.id, aWeightedDbfs: testCut.aWeightedDbfs, clicksPerMinute: testCut.clicksPerMinute, verdict: testCut.verdict } }

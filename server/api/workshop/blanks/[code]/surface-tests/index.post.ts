@@ -9,9 +9,10 @@ export default defineEventHandler(async (event) => {
   const db = await useDB()
   // Refuse before reading a large upload when no test can be taken now; checked again when stored.
   await assertBlankAction(db, await findBlankByCode(db, code), 'surfaceTest')
-  const upload = await readSurfaceWavUpload(event)
+  const upload = await readUploadForm(event, 'surface_test', { required: 'choose the WAV file of the play-through' })
+  const file = upload.file!
   const fields = surfaceFieldsWith(upload.fields, surfaceTestUploadFieldsSchema)
-  const analysis = analyseSurfaceUpload(upload.bytes, { rpm: fields.rpm, thresholds: await getSetting('surface', db) })
+  const analysis = analyseSurfaceUpload(file.data, { rpm: fields.rpm, thresholds: await getSetting('surface', db) })
   if (analysis.rotaryDb === null) {
     const seconds = Math.ceil((MIN_ROTATIONS_FOR_ROTARY * 60) / fields.rpm) + 1
     throw createError({ statusCode: 422, statusMessage: 'Unprocessable Content', message: `file: the recording is ${analysis.durationS.toFixed(1)} s long, too short to judge once-per-turn noise; record at least ${seconds} s of the play-through.`, data: { fields: { file: `record at least ${seconds} s` } } })
@@ -24,8 +25,8 @@ export default defineEventHandler(async (event) => {
     const blank = await lockBlankByCode(tx, code)
     await assertBlankAction(tx, blank, 'surfaceTest')
     return await recordBlankSurfaceTest(tx, blank, {
-      bytes: upload.bytes,
-      fileName: upload.fileName,
+      bytes: file.data,
+      fileName: file.filename,
       rpm: fields.rpm,
       analysis,
       finalVerdict,
