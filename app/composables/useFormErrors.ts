@@ -8,6 +8,12 @@ export function useFormErrors() {
     message.value = ''
   }
 
+  /** Marks fields found wrong before anything was sent, with the same summary as the server's refusal. */
+  function refuse(found: Record<string, string>) {
+    fields.value = found
+    message.value = 'Please correct the marked fields.'
+  }
+
   function take(error: unknown) {
     const body = (error as { data?: { message?: string, data?: { fields?: Record<string, string> } } })?.data
     fields.value = body?.data?.fields ?? {}
@@ -17,5 +23,11 @@ export function useFormErrors() {
       : body?.message ?? 'Something went wrong; please try again.'
   }
 
-  return { fields, message, clear, take }
+  /** The message for one field, without the field's name in front where the server put it there. */
+  function field(name: string): string | undefined {
+    const text = fields.value[name]
+    return text?.startsWith(`${name}:`) ? text.slice(name.length + 1).trimStart() : text
+  }
+
+  return { fields, message, clear, refuse, take, field }
 }
