@@ -1,10 +1,10 @@
-// Write a synthetic surface-test WAV with known answers (see server/utils/audio/synth.ts).
+// Write a synthetic surface-test WAV with known answers (see server/audio/synth.ts).
 //
 //   npx tsx scripts/make-surface-wav.ts --out f.wav --level -50 --rpm 160 --swell 0.5 \
 //     --clicks 12 --seconds 60 --rate 44100 --bits 16 [--float] [--channels 2] [--seed 7]
 //     [--colour soft] [--click-level 30] [--extensible]
 import { writeFileSync } from 'node:fs'
-import { makeSurfaceWav } from '../server/utils/audio/synth'
+import { makeSurfaceWav } from '../server/audio/synth'
 
 const usage = `usage: npx tsx scripts/make-surface-wav.ts --out FILE.wav [options]
   --level DBFS       RMS level of the surface noise, AES17 dBFS (default -50)

@@ -1,5 +1,5 @@
 // The surface-test audio engine: pure TypeScript, no Nitro or Vue. Import from here, e.g.
-// `import { analyseSurfaceWav, AudioInputError } from '~~/server/utils/audio'`.
+// `import { analyseSurfaceWav, AudioInputError } from '~~/server/audio'`.
 export { analyseSurfaceWav, analyseSurfaceSamples, analyseSurfaceSource, countClicks, DEFAULT_SURFACE_RPM, ENVELOPE_MAX_POINTS } from './analyse'
 export type { SurfaceAnalysis, SurfaceAnalysisOptions } from './analyse'
 export { decodeWav, decodeWavSamples, monoSourceFromSamples, AudioInputError, SURFACE_WAV_LIMITS } from './decode'

@@ -1,6 +1,6 @@
 import type { ZodType } from 'zod'
 import { surfaceTests } from '../db/schema'
-import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceAnalysisOptions } from './audio'
+import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceAnalysisOptions } from '../audio'
 import type { BlankRow } from './blanks'
 import type { Transaction } from './db'
 

@@ -6,7 +6,7 @@ import { count } from 'drizzle-orm'
 import { cylinderFormats, standardCylinderRpm } from '#shared/utils/cylinder'
 import { defaultEngineSettings } from '#shared/utils/engineSettings'
 import { files, productChanges, products } from '../db/schema'
-import { encodeWav, makeSeededRandom, makeSurfaceSignal, makeToneSignal } from './audio/synth'
+import { encodeWav, makeSeededRandom, makeSurfaceSignal, makeToneSignal } from '../audio/synth'
 import type { Storage } from 'unstorage'
 import type { Database } from './db'
 

@@ -4,7 +4,7 @@
 // swell and clicks), so the analysis has known right answers. Run after the catalogue and the blank
 // register's seed; idempotent.
 import { eq, inArray } from 'drizzle-orm'
-import { analyseSurfaceWav, makeSurfaceWav } from './audio'
+import { analyseSurfaceWav, makeSurfaceWav } from '../audio'
 import { blankLog, blanks, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import type { Database, Transaction } from './db'

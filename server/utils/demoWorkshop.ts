@@ -1,11 +1,11 @@
 // The invented demo workshop's wax and blanks: three batches of made-up formulas and forty blanks
 // (GW-26-0001 …) in every state of their life cycle, each with the logs that brought it there, and
 // surface tests analysed from synthetic play-throughs whose answers are known: white or softened
-// noise at a set level, with or without a once-per-turn swell and clicks (server/utils/audio/synth.ts).
+// noise at a set level, with or without a once-per-turn swell and clicks (server/audio/synth.ts).
 import { eq, inArray } from 'drizzle-orm'
 import type { CylinderFormat } from '#shared/utils/cylinder'
 import { blankLog, blanks, settings, surfaceTests, users, waxBatches } from '../db/schema'
-import { analyseSurfaceWav, makeSurfaceWav, surfaceThresholdsSchema, type SurfaceAnalysis, type SurfaceWavOptions } from './audio'
+import { analyseSurfaceWav, makeSurfaceWav, surfaceThresholdsSchema, type SurfaceAnalysis, type SurfaceThresholds, type SurfaceWavOptions } from '../audio'
 import type { Database } from './db'
 
 const DAY_MS = 86_400_000

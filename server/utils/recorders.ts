@@ -1,6 +1,6 @@
 import { and, desc, eq, gte } from 'drizzle-orm'
 import { z } from 'zod'
-import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceThresholds } from './audio'
+import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceThresholds } from '../audio'
 import { blanks, recorders, testCuts } from '../db/schema'
 import type { Database, Transaction } from './db'
 

@@ -1,5 +1,6 @@
 import { eq } from 'drizzle-orm'
 import type { ZodType } from 'zod'
+import { surfaceThresholdsSchema } from '../audio'
 import { settings } from '../db/schema'
 import type { Database, Transaction } from './db'
 
@@ -7,7 +8,7 @@ import type { Database, Transaction } from './db'
 const settingSchemas = {
   shop: shopProfileSchema,
   engine: engineSettingsSchema,
-  // The maker's limits for a surface test's verdict (server/utils/audio/verdict.ts).
+  // The maker's limits for a surface test's verdict (server/audio/verdict.ts).
   surface: surfaceThresholdsSchema,
 } satisfies Record<string, ZodType>
 

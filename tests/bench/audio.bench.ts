@@ -13,7 +13,7 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { setFlagsFromString } from 'node:v8'
 import { runInNewContext } from 'node:vm'
-import { analyseSurfaceWav, makeSurfaceWav } from '../../server/utils/audio'
+import { analyseSurfaceWav, makeSurfaceWav } from '../../server/audio'
 
 const RUNS = 15
 const SECONDS = 150

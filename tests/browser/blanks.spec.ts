@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type Page } from '@playwright/test'
-import { makeSurfaceWav } from '../../server/utils/audio/synth'
+import { makeSurfaceWav } from '../../server/audio/synth'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 
 const shots = 'tests/browser/report'

@@ -1,6 +1,6 @@
 import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type APIRequestContext, type Page } from '@playwright/test'
-import { makeSurfaceWav } from '../../server/utils/audio/synth'
+import { makeSurfaceWav } from '../../server/audio/synth'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 
 const shots = 'tests/browser/report'

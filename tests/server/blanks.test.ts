@@ -5,7 +5,7 @@ import { join } from 'node:path'
 import { url } from '@nuxt/test-utils/e2e'
 import sharp from 'sharp'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { analyseSurfaceWav, makeSurfaceWav } from '../../server/utils/audio'
+import { analyseSurfaceWav, makeSurfaceWav } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { Client, signedIn, useTestServer } from './harness'
 
@@ -72,7 +72,7 @@ async function upload(client: Client | null, path: string, file: { name: string,
   return { status: response.status, body }
 }
 
-// Synthetic play-throughs with known answers (server/utils/audio/synth.ts): 8 s at 22.05 kHz.
+// Synthetic play-throughs with known answers (server/audio/synth.ts): 8 s at 22.05 kHz.
 const quietWav = () => makeSurfaceWav({ seconds: 8, sampleRate: 22_050, levelDbfs: -58, swellDepth: 0.02, seed: 41 })
 const clickyWav = () => makeSurfaceWav({ seconds: 8, sampleRate: 22_050, levelDbfs: -57, clicks: 3, seed: 42 })
 
@@ -523,7 +523,7 @@ describe('surface-test limits: GET/PUT /api/workshop/settings/surface', () => {
   it('refuses bad limits naming the field and keeps the old ones; judges new analyses by the saved ones', async () => {
     const before = await maker.get(path)
     expect(before.status).toBe(200)
-    // The shop defaults, documented in server/utils/audio/verdict.ts (common practice, no source).
+    // The shop defaults, documented in server/audio/verdict.ts (common practice, no source).
     expect(before.body.defaults).toEqual(limits([-50, -44], [15, 25], [6, 15]))
     try {
       const bad: [unknown, string][] = [

@@ -5,7 +5,7 @@ import { join } from 'node:path'
 import { url } from '@nuxt/test-utils/e2e'
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { encodeWav, makeToneSignal } from '../../server/utils/audio/synth'
+import { encodeWav, makeToneSignal } from '../../server/audio/synth'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { Client, signedIn, useTestServer } from './harness'
 

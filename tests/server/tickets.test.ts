@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { url } from '@nuxt/test-utils/e2e'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { analyseSurfaceWav, makeSurfaceWav, surfaceThresholdsSchema } from '../../server/utils/audio'
+import { analyseSurfaceWav, makeSurfaceWav, surfaceThresholdsSchema } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { Client, signedIn, useTestServer, waitFor } from './harness'
 
@@ -56,7 +56,7 @@ async function upload(client: Client, path: string, file: { name: string, bytes:
   return { status: response.status, body }
 }
 
-// Synthetic play-throughs with known answers (server/utils/audio/synth.ts): 6 s at 22.05 kHz, over the
+// Synthetic play-throughs with known answers (server/audio/synth.ts): 6 s at 22.05 kHz, over the
 // ten turns at 160 rpm that the once-per-turn measure needs.
 const quietWav = (seed = 7) => makeSurfaceWav({ seconds: 6, sampleRate: 22_050, levelDbfs: -58, swellDepth: 0.02, seed })
 const loudWav = () => makeSurfaceWav({ seconds: 6, sampleRate: 22_050, levelDbfs: -40, swellDepth: 0.02, seed: 8 })

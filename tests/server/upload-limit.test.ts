@@ -1,7 +1,7 @@
 // The surface-test size limit is a setting (NUXT_PUBLIC_SURFACE_TEST_MAX_MB); here it is 1 MB.
 import { url } from '@nuxt/test-utils/e2e'
 import { describe, expect, it } from 'vitest'
-import { makeSurfaceWav } from '../../server/utils/audio'
+import { makeSurfaceWav } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { signedIn, useTestServer } from './harness'
 

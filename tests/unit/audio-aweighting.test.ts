@@ -5,7 +5,7 @@ import {
   aWeightingFilterResponseDb,
   analyseSurfaceWav,
   makeToneWav,
-} from '../../server/utils/audio'
+} from '../../server/audio'
 
 // IEC 61672-1 Table 3 (A-weighting, dB) at the exact base-10 frequencies 10^(1.5 … 4.2, step 0.3),
 // i.e. nominal 31.5, 63, 125, 250, 500, 1k, 2k, 4k, 8k, 16k Hz.

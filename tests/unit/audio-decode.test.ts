@@ -9,7 +9,7 @@ import {
   makeSeededRandom,
   makeSurfaceWav,
   makeToneSignal,
-} from '../../server/utils/audio'
+} from '../../server/audio'
 
 /** Run fn and return the AudioInputError it throws (fails the test if it throws anything else or nothing). */
 function inputError(fn: () => unknown): AudioInputError {

@@ -4,9 +4,9 @@
 import { readFileSync } from 'node:fs'
 import { describe, expect, it } from 'vitest'
 import { assembleSurfacePassKernel } from '../../scripts/lib/assembleKernel'
-import { decodeWav, makeSurfaceWav, makeToneSignal, monoSourceFromSamples, runSurfacePass, type MonoSampleSource } from '../../server/utils/audio'
-import { SURFACE_PASS_WASM_BASE64 } from '../../server/utils/audio/kernel/surfacePassWasm'
-import { frameLengthFor, WARM_UP_FRAMES } from '../../server/utils/audio/levels'
+import { decodeWav, makeSurfaceWav, makeToneSignal, monoSourceFromSamples, runSurfacePass, type MonoSampleSource } from '../../server/audio'
+import { SURFACE_PASS_WASM_BASE64 } from '../../server/audio/kernel/surfacePassWasm'
+import { frameLengthFor, WARM_UP_FRAMES } from '../../server/audio/levels'
 import { runSurfacePassReference } from './support/surfacePassReference'
 
 function relativeError(a: number, b: number): number {
@@ -40,7 +40,7 @@ function expectSameAsReference(source: MonoSampleSource, aWeightedTolerance = 1e
 
 describe('the surface-pass kernel', () => {
   it('is assembled from the committed WebAssembly text (rebuild with npm run build:kernel)', async () => {
-    const wat = readFileSync(new URL('../../server/utils/audio/kernel/surfacePass.wat', import.meta.url), 'utf8')
+    const wat = readFileSync(new URL('../../server/audio/kernel/surfacePass.wat', import.meta.url), 'utf8')
     expect(await assembleSurfacePassKernel(wat)).toBe(SURFACE_PASS_WASM_BASE64)
   })
 

@@ -3,7 +3,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { afterAll, describe, expect, it } from 'vitest'
-import { analyseSurfaceWav, decodeWavSamples, makeSurfaceWav, makeToneWav, type SurfaceWavOptions } from '../../server/utils/audio'
+import { analyseSurfaceWav, decodeWavSamples, makeSurfaceWav, makeToneWav, type SurfaceWavOptions } from '../../server/audio'
 
 function soxAvailable(): boolean {
   try {

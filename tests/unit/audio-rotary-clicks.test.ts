@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { analyseSurfaceSamples, analyseSurfaceWav, countClicks, encodeWav, makeSurfaceSignal, makeSurfaceWav } from '../../server/utils/audio'
+import { analyseSurfaceSamples, analyseSurfaceWav, countClicks, encodeWav, makeSurfaceSignal, makeSurfaceWav } from '../../server/audio'
 
 // Rotation frequency = rpm ÷ 60 (PRODUCT.md computation 1; arithmetic): 2.67 Hz at 160 rpm, 2.4 Hz at 144.
 

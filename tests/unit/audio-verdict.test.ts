@@ -9,7 +9,7 @@ import {
   surfaceThresholdsSchema,
   thirdOctaveCentres,
   type SurfaceThresholds,
-} from '../../server/utils/audio'
+} from '../../server/audio'
 
 // The default limits are shop choices: common practice, no source.
 const defaults: SurfaceThresholds = surfaceThresholdsSchema.parse({})

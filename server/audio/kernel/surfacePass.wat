@@ -1,6 +1,6 @@
 ;; The hot loop of the surface-test analysis, in WebAssembly with 128-bit SIMD.
 ;;
-;; Source of server/utils/audio/kernel/surfacePassWasm.ts (rebuild with `npm run build:kernel`;
+;; Source of server/audio/kernel/surfacePassWasm.ts (rebuild with `npm run build:kernel`;
 ;; tests/unit/audio-kernel.test.ts fails when the two disagree). The plain TypeScript form of the
 ;; same computation is tests/unit/support/surfacePassReference.ts, and the unit tests check this
 ;; kernel against it.

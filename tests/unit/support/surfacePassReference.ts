@@ -1,9 +1,9 @@
 // The surface pass in plain TypeScript, one sample at a time: the readable form of the WebAssembly
-// kernel (server/utils/audio/kernel/surfacePass.wat) that the server runs. The unit tests check the
+// kernel (server/audio/kernel/surfacePass.wat) that the server runs. The unit tests check the
 // kernel against this. It was the server's own implementation until the kernel replaced it for speed.
-import { designAWeightingFilter } from '../../../server/utils/audio/aWeighting'
-import type { MonoSampleSource } from '../../../server/utils/audio/decode'
-import { frameLengthFor, type SurfacePass } from '../../../server/utils/audio/levels'
+import { designAWeightingFilter } from '../../../server/audio/aWeighting'
+import type { MonoSampleSource } from '../../../server/audio/decode'
+import { frameLengthFor, type SurfacePass } from '../../../server/audio/levels'
 
 /** Frames converted and processed per read (1.6 s). */
 const FRAMES_PER_CHUNK = 160

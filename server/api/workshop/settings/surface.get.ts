@@ -1,5 +1,5 @@
 // The maker's limits for surface-test verdicts, with the shop defaults beside them.
-import { surfaceThresholdsSchema } from '../../../utils/audio'
+import { surfaceThresholdsSchema } from '../../../audio'
 
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')

@@ -1,6 +1,6 @@
 // Change the limits for surface-test verdicts. Tests already stored keep the verdict they were
 // given; new analyses use these.
-import { surfaceThresholdsSchema } from '../../../utils/audio'
+import { surfaceThresholdsSchema } from '../../../audio'
 
 const bodySchema = surfaceThresholdsSchema.unwrap().strict()
 

@@ -1,3 +1,4 @@
+import { MIN_ROTATIONS_FOR_ROTARY } from '../../../../../audio'
 /**
  * A surface test of the blank's current surface: the play-through WAV (multipart `file`) is analysed
  * against the shop's `surface` limits and stored with the figures, the file, who and when. The final
