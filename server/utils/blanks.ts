@@ -62,6 +62,35 @@ export async function writeBlankLog(tx: Transaction, blankId: number, kind: Blan
   return entry!
 }
 
+type BlankStateValue = BlankRow['state']
+
+export interface BlankMove {
+  from: BlankStateValue
+  to: BlankStateValue
+  reason: string
+  byUserId: number | null
+  /** Kept in the log row beside from, to and reason (the ticket or test cut that moved it). */
+  details?: { ticketId?: number, testCutId?: number }
+  /** Back-dates the move and its log row (the demo seed). */
+  at?: Date
+}
+
+/**
+ * A blank's move from one state to another on behalf of a ticket or a test cut, logged with its reason.
+ * Conditional: it happens only while the blank is still in `from`, so two requests cannot both move
+ * it. Returns the moved row, or null when the blank had already left `from`. Moves that the maker
+ * makes on the blank itself go through changeBlank; no other code writes a blank's state.
+ */
+export async function moveBlank(tx: Database | Transaction, blankId: number, move: BlankMove): Promise<BlankRow | null> {
+  const at = move.at ?? new Date()
+  const [moved] = await tx.update(blanks).set({ state: move.to, updatedAt: at })
+    .where(and(eq(blanks.id, blankId), eq(blanks.state, move.from))).returning()
+  if (!moved) return null
+  const data = { from: move.from, to: move.to, reason: move.reason, ...move.details } satisfies BlankStateLogData
+  await tx.insert(blankLog).values({ blankId, kind: 'state', data, byUserId: move.byUserId, at })
+  return moved
+}
+
 type BlankChanges = Partial<Pick<BlankRow, 'state' | 'diameterIn' | 'surfacesUsed' | 'location' | 'notes'>>
 
 /** Applies the changes; a move to another state is logged with its reason. `at` back-dates both (the demo seed). */

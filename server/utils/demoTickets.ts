@@ -5,7 +5,7 @@
 // register's seed; idempotent.
 import { eq, inArray } from 'drizzle-orm'
 import { analyseSurfaceWav, makeSurfaceWav } from '../audio'
-import { blankLog, blanks, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
+import { blanks, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import type { Database, Transaction } from './db'
 
@@ -364,14 +364,12 @@ async function seedDemoOrder(tx: Transaction, context: OrderContext): Promise<nu
     })))
     if (plan.blank && plan.blank.state !== blankStateAt(plan.stage)) {
       const blankState = blankStateAt(plan.stage)
-      await tx.update(blanks).set({ state: blankState, updatedAt: at(stagePath.length - 1) }).where(eq(blanks.id, plan.blank.id))
-      const states: string[] = ['tested_pass', 'reserved', 'cut', 'shipped']
-      const passed = states.slice(states.indexOf(plan.blank.state), states.indexOf(blankState) + 1)
-      const moves = passed.slice(1).map((state, step): [string, string] => [passed[step]!, state])
-      await tx.insert(blankLog).values(moves.map(([from, to], step) => ({
-        blankId: plan.blank!.id, kind: 'state' as const, byUserId: makerId, at: at(step + 1),
-        data: { from, to, reason: `${to === 'reserved' ? 'Reserved for' : to === 'cut' ? 'Cut for' : 'Shipped with'} ticket #${ticket!.id} (order ${order!.number}).`, ticketId: ticket!.id },
-      })))
+      const states = ['tested_pass', 'reserved', 'cut', 'shipped'] as const
+      const passed = states.slice(states.indexOf(plan.blank.state as typeof states[number]), states.indexOf(blankState) + 1)
+      for (const [step, to] of passed.slice(1).entries()) {
+        const reason = `${to === 'reserved' ? 'Reserved for' : to === 'cut' ? 'Cut for' : 'Shipped with'} ticket #${ticket!.id} (order ${order!.number}).`
+        await moveBlank(tx, plan.blank.id, { from: passed[step]!, to, reason, byUserId: makerId, details: { ticketId: ticket!.id }, at: at(step + 1) })
+      }
     }
   }
   return stages.length

@@ -190,14 +190,14 @@ export async function blankForTestCut(db: Db, code: string, lock = false): Promi
  * a fresh surface again.
  */
 export async function markBlankTestCut(tx: Transaction, blank: typeof blanks.$inferSelect, cut: { id: number, recorderName: string }, byUserId: number) {
-  await tx.update(blanks).set({ state: 'cut', updatedAt: new Date() }).where(eq(blanks.id, blank.id))
   const surface = blankCurrentSurface(blank.surfacesUsed)
-  await writeBlankLog(tx, blank.id, 'state', {
+  await moveBlank(tx, blank.id, {
     from: blank.state,
     to: 'cut',
     reason: `Test cut #${cut.id} with ${cut.recorderName} on surface ${surface}: the surface now carries a groove; reshave it for a fresh one.`,
-    testCutId: cut.id,
-  }, byUserId)
+    byUserId,
+    details: { testCutId: cut.id },
+  })
 }
 
 /** A recorder's test cuts, oldest first, for its chart and table. */

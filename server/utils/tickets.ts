@@ -1,5 +1,5 @@
 import { and, asc, desc, eq, ne, sql } from 'drizzle-orm'
-import { blankLog, blanks, orderItems, orders, recorders, surfaceTests, testCuts, ticketEvents, tickets, users, waxBatches } from '../db/schema'
+import { blanks, orderItems, orders, recorders, surfaceTests, testCuts, ticketEvents, tickets, users, waxBatches } from '../db/schema'
 import type { Database, Transaction } from './db'
 
 type Db = Database | Transaction
@@ -37,10 +37,6 @@ export function ticketWishesFromDetails(details: Record<string, unknown> | null 
 
 export async function logTicketEvent(tx: Db, ticketId: number, from: TicketStageValue | null, to: TicketStageValue, note: string | null, actorUserId: number | null) {
   await tx.insert(ticketEvents).values({ ticketId, fromStage: from, toStage: to, note: note || null, actorUserId })
-}
-
-async function logBlankState(tx: Db, blankId: number, from: Blank['state'], to: Blank['state'], ticketId: number, note: string, byUserId: number | null) {
-  await tx.insert(blankLog).values({ blankId, kind: 'state', data: { from, to, reason: note, ticketId }, byUserId })
 }
 
 /**
@@ -182,17 +178,12 @@ export async function assignBlankToTicket(db: Database, ticketId: number, blankC
 
       const previous = ticket.blankId ? (await tx.select().from(blanks).where(eq(blanks.id, ticket.blankId)))[0] : undefined
       await tx.update(tickets).set({ blankId: blank.id, stage: 'blank_assigned', updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
-      const [reserved] = await tx.update(blanks).set({ state: 'reserved', updatedAt: new Date() })
-        .where(and(eq(blanks.id, blank.id), eq(blanks.state, 'tested_pass'))).returning({ id: blanks.id })
+      const reserved = await moveBlank(tx, blank.id, { from: 'tested_pass', to: 'reserved', reason: `Reserved for ticket #${ticket.id}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
       if (!reserved) throw conflict(`Blank ${blank.code} changed meanwhile; reload and choose again.`)
-      await logBlankState(tx, blank.id, 'tested_pass', 'reserved', ticket.id, `Reserved for ticket #${ticket.id}.`, actorUserId)
       let note = `Blank ${blank.code} assigned.`
       if (previous) {
         // An uncut blank goes back on the shelf; one carrying a rejected cut stays cut, for the register to deal with.
-        if (previous.state === 'reserved') {
-          await tx.update(blanks).set({ state: 'tested_pass', updatedAt: new Date() }).where(eq(blanks.id, previous.id))
-          await logBlankState(tx, previous.id, 'reserved', 'tested_pass', ticket.id, `Released from ticket #${ticket.id}.`, actorUserId)
-        }
+        await moveBlank(tx, previous.id, { from: 'reserved', to: 'tested_pass', reason: `Released from ticket #${ticket.id}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
         note = `Blank changed from ${previous.code} to ${blank.code}.`
       }
       await logTicketEvent(tx, ticket.id, ticket.stage, 'blank_assigned', note, actorUserId)
@@ -236,8 +227,7 @@ export async function blankReadyForCut(tx: Transaction, ticket: Ticket): Promise
 /** Marks the cut: ticket → cut with recorder, date and test cut; blank reserved → cut. */
 export async function markTicketCut(tx: Transaction, ticket: Ticket, blank: Blank, cut: { recorderId: number, cutAt: Date, testCutId: number | null, recorderName: string, note?: string }, actorUserId: number) {
   await tx.update(tickets).set({ stage: 'cut', recorderId: cut.recorderId, cutAt: cut.cutAt, cutTestId: cut.testCutId, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
-  await tx.update(blanks).set({ state: 'cut', updatedAt: new Date() }).where(eq(blanks.id, blank.id))
-  await logBlankState(tx, blank.id, 'reserved', 'cut', ticket.id, `Cut for ticket #${ticket.id} on ${cut.recorderName}.`, actorUserId)
+  await moveBlank(tx, blank.id, { from: 'reserved', to: 'cut', reason: `Cut for ticket #${ticket.id} on ${cut.recorderName}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
   await logTicketEvent(tx, ticket.id, ticket.stage, 'cut', `Cut on ${blank.code} with ${cut.recorderName}${cut.testCutId ? ', with a test recording' : ''}.${cut.note ? ` ${cut.note}` : ''}`, actorUserId)
   await syncOrderWithTickets(tx, ticket.orderId, actorUserId)
 }
@@ -253,9 +243,7 @@ export async function changeTicketStage(db: Database, ticketId: number, change: 
     const to: TicketStageValue = change.to === 'recut' ? 'blank_assigned' : change.to
     await tx.update(tickets).set({ stage: to, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
     if (to === 'done' && ticket.blankId) {
-      const [shipped] = await tx.update(blanks).set({ state: 'shipped', updatedAt: new Date() })
-        .where(and(eq(blanks.id, ticket.blankId), eq(blanks.state, 'cut'))).returning({ id: blanks.id })
-      if (shipped) await logBlankState(tx, ticket.blankId, 'cut', 'shipped', ticket.id, `Shipped with order ${order.number}.`, actorUserId)
+      await moveBlank(tx, ticket.blankId, { from: 'cut', to: 'shipped', reason: `Shipped with order ${order.number}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
     }
     await logTicketEvent(tx, ticket.id, ticket.stage, to, recut ? `Recut: ${change.note}` : change.note, actorUserId)
     await syncOrderWithTickets(tx, ticket.orderId, actorUserId)
@@ -268,7 +256,7 @@ export async function closeTicketsOfShippedOrder(tx: Db, orderId: number, actorU
   const open = await tx.select().from(tickets).where(and(eq(tickets.orderId, orderId), eq(tickets.stage, 'to_dispatch')))
   for (const ticket of open) {
     await tx.update(tickets).set({ stage: 'done', updatedAt: new Date() }).where(and(eq(tickets.id, ticket.id), eq(tickets.stage, 'to_dispatch')))
-    if (ticket.blankId) await tx.update(blanks).set({ state: 'shipped', updatedAt: new Date() }).where(and(eq(blanks.id, ticket.blankId), eq(blanks.state, 'cut')))
+    if (ticket.blankId) await moveBlank(tx, ticket.blankId, { from: 'cut', to: 'shipped', reason: 'Shipped with its order.', byUserId: actorUserId, details: { ticketId: ticket.id } })
     await logTicketEvent(tx, ticket.id, 'to_dispatch', 'done', 'The order has shipped.', actorUserId)
   }
   return open.length
@@ -283,7 +271,7 @@ export async function closeTicketsOfRefundedOrder(tx: Db, orderId: number) {
   const open = await tx.select().from(tickets).where(and(eq(tickets.orderId, orderId), ne(tickets.stage, 'done')))
   for (const ticket of open) {
     await tx.update(tickets).set({ stage: 'done', updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
-    if (ticket.blankId) await tx.update(blanks).set({ state: 'tested_pass', updatedAt: new Date() }).where(and(eq(blanks.id, ticket.blankId), eq(blanks.state, 'reserved')))
+    if (ticket.blankId) await moveBlank(tx, ticket.blankId, { from: 'reserved', to: 'tested_pass', reason: `Released: the order of ticket #${ticket.id} was refunded in full.`, byUserId: null, details: { ticketId: ticket.id } })
     await logTicketEvent(tx, ticket.id, ticket.stage, 'done', 'The order was refunded in full: nothing more to make.', null)
   }
   return open.length

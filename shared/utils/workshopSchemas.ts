@@ -209,6 +209,9 @@ export interface BlankStateLogData {
   from: string | null
   to: string
   reason: string
+  /** The ticket or test cut that moved the blank, when one did. */
+  ticketId?: number
+  testCutId?: number
 }
 
 // ——— What the pages show (the routes' answers, as they arrive in the browser) ———
