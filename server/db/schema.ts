@@ -1,7 +1,13 @@
 import { sql } from 'drizzle-orm'
 import { boolean, check, date, doublePrecision, index, integer, jsonb, pgEnum, pgSequence, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core'
+// Each enum's values are defined once, in the shared code the pages and forms use too.
+import { userRoles } from '../../shared/types/auth'
+import { blankStates } from '../../shared/utils/blankLifecycle'
+import { cylinderFormats } from '../../shared/utils/cylinder'
+import { orderStatuses } from '../../shared/utils/shopSchemas'
+import { ticketStages } from '../../shared/utils/ticketLifecycle'
 
-export const userRole = pgEnum('user_role', ['collector', 'maker', 'shipper'])
+export const userRole = pgEnum('user_role', userRoles)
 
 export const users = pgTable('users', {
   id: serial('id').primaryKey(),
@@ -91,7 +97,7 @@ export const userSessions = pgTable('user_sessions', {
   index('user_sessions_user').on(table.userId),
 ])
 
-export const cylinderFormat = pgEnum('cylinder_format', ['two_minute', 'four_minute'])
+export const cylinderFormat = pgEnum('cylinder_format', cylinderFormats)
 export const productKind = pgEnum('product_kind', ['blank', 'recorded', 'custom'])
 
 /** Uploaded files (photos, audio samples, surface-test recordings), stored by generated key in Nitro storage. */
@@ -147,9 +153,7 @@ export const productChanges = pgTable('product_changes', {
   at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
 })
 
-export const orderStatus = pgEnum('order_status', [
-  'awaiting_payment', 'paid', 'in_production', 'proof_pending', 'ready_to_pack', 'packed', 'shipped', 'delivered', 'cancelled', 'refunded',
-])
+export const orderStatus = pgEnum('order_status', orderStatuses)
 
 export interface ShippingAddress {
   name: string
@@ -286,7 +290,7 @@ export const blankCodeCounters = pgTable('blank_code_counters', {
   last: integer('last').notNull().default(0),
 })
 
-export const blankState = pgEnum('blank_state', ['cast', 'reamed', 'shaved', 'tested_pass', 'tested_fail', 'reserved', 'cut', 'shipped', 'scrapped'])
+export const blankState = pgEnum('blank_state', blankStates)
 
 export const blanks = pgTable('blanks', {
   id: serial('id').primaryKey(),
@@ -369,7 +373,7 @@ export const testCuts = pgTable('test_cuts', {
   index('test_cuts_recorder').on(table.recorderId, table.cutAt),
 ])
 
-export const ticketStage = pgEnum('ticket_stage', ['queued', 'blank_assigned', 'cut', 'proof_sent', 'approved', 'to_dispatch', 'done'])
+export const ticketStage = pgEnum('ticket_stage', ticketStages)
 
 export const tickets = pgTable('tickets', {
   id: serial('id').primaryKey(),

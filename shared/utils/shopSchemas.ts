@@ -47,6 +47,9 @@ export const checkoutSchema = z.object({
 export type CartItemInput = z.infer<typeof cartItemSchema>
 export type CheckoutInput = z.infer<typeof checkoutSchema>
 
+/** An order's life cycle, in the order the database's enum keeps them. */
+export const orderStatuses = ['awaiting_payment', 'paid', 'in_production', 'proof_pending', 'ready_to_pack', 'packed', 'shipped', 'delivered', 'cancelled', 'refunded'] as const
+
 export const orderStatusLabels = {
   awaiting_payment: 'Awaiting payment',
   paid: 'Paid',
@@ -58,9 +61,9 @@ export const orderStatusLabels = {
   delivered: 'Delivered',
   cancelled: 'Cancelled',
   refunded: 'Refunded',
-} as const
+} as const satisfies Record<typeof orderStatuses[number], string>
 
-export type OrderStatus = keyof typeof orderStatusLabels
+export type OrderStatus = typeof orderStatuses[number]
 
 /** The checkout hold in words, for the cart page and the mails ("30 minutes", "2 hours"). */
 export function holdText(minutes: number): string {
