@@ -1,5 +1,7 @@
 // Opens the database (and migrates it) as the server starts, seeds the demo when asked, and runs the
 // mail outbox loop. Nitro does not await plugins, so routes still go through the shared useDB() promise.
+import { seedIfEmpty } from '../demo'
+
 export default defineNitroPlugin((nitroApp) => {
   const config = useRuntimeConfig()
   let timer: ReturnType<typeof setTimeout> | undefined

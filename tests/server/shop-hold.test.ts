@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { parseHoldMinutes, sessionExpiresAt } from '../../server/utils/checkoutHold'
+import { parseHoldMinutes, sessionExpiresAt } from '../../server/utils/shop/checkoutHold'
 import { holdText } from '../../shared/utils/shopSchemas'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { Client, signedIn, useTestServer, waitFor } from './harness'

@@ -4,15 +4,15 @@ import { describe, expect, it } from 'vitest'
 
 /*
  * Each life cycle has one owner that writes its state, always through its transition rules and with a
- * log row: orders in server/utils/orders.ts (moveOrder), tickets in server/utils/tickets.ts, blanks in
- * server/utils/blanks.ts (changeBlank, moveBlank). Anywhere else, an `update(<table>).set({ <state> })`
- * is a second owner, and this test names the file.
+ * log row: orders in server/utils/shop/orders.ts (moveOrder), tickets in server/utils/workshop/tickets.ts,
+ * blanks in server/utils/workshop/blanks.ts (changeBlank, moveBlank). Anywhere else, an
+ * `update(<table>).set({ <state> })` is a second owner, and this test names the file.
  */
 const root = join(import.meta.dirname, '../..')
 const owners = [
-  { table: 'orders', column: 'status', owner: 'server/utils/orders.ts' },
-  { table: 'tickets', column: 'stage', owner: 'server/utils/tickets.ts' },
-  { table: 'blanks', column: 'state', owner: 'server/utils/blanks.ts' },
+  { table: 'orders', column: 'status', owner: 'server/utils/shop/orders.ts' },
+  { table: 'tickets', column: 'stage', owner: 'server/utils/workshop/tickets.ts' },
+  { table: 'blanks', column: 'state', owner: 'server/utils/workshop/blanks.ts' },
 ]
 
 function sourceFiles(dir: string): string[] {

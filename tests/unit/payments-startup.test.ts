@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { paymentSettingsProblem, signatureTimeProblem, usesRealPaymentService } from '../../server/utils/payments'
+import { paymentSettingsProblem, signatureTimeProblem, usesRealPaymentService } from '../../server/utils/shop/payments'
 
 // The defaults in nuxt.config.ts: the local fake on 127.0.0.1 with the published key and secret.
 const local = { stripeSecretKey: 'sk_test_local_fake_key', stripeApiHost: '127.0.0.1', stripeWebhookSecret: 'whsec_local_fake' }

@@ -1,6 +1,6 @@
 import { and, eq, sql } from 'drizzle-orm'
 import { orderEvents, orderItems, orders, products } from '../../db/schema'
-import type { Order } from '../../utils/orders'
+import type { Order } from '../../utils/shop/orders'
 
 class SoldOut extends Error {}
 

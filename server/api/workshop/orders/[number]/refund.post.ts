@@ -1,7 +1,7 @@
 import { and, eq, ne, sum } from 'drizzle-orm'
 import Stripe from 'stripe'
 import { z } from 'zod'
-import type { Transaction } from '../../../../utils/db'
+import type { Transaction } from '../../../../utils/platform/db'
 import { orderItems, orders, refundItems, refunds } from '../../../../db/schema'
 
 const paramsSchema = z.object({ number: z.string().trim().min(1).max(40) })

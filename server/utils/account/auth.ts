@@ -2,8 +2,8 @@ import { createHash, randomBytes } from 'node:crypto'
 import type { H3Event } from 'h3'
 import { and, eq, gt, isNull, lte } from 'drizzle-orm'
 import type { SessionUser, UserRole } from '#shared/types/auth'
-import { passwordResets, userSessions, users } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { passwordResets, userSessions, users } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 declare module '#auth-utils' {
   interface User {

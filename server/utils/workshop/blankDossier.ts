@@ -1,6 +1,6 @@
 import { asc, desc, eq } from 'drizzle-orm'
-import { blankLog, blanks, orders, recorders, surfaceTests, testCuts, tickets, users, waxBatches } from '../db/schema'
-import type { Database } from './db'
+import { blankLog, blanks, orders, recorders, surfaceTests, testCuts, tickets, users, waxBatches } from '../../db/schema'
+import type { Database } from '../platform/db'
 
 /**
  * One blank with everything the register knows about it: batch, wall left, the reaming and shaving

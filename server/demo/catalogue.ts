@@ -8,7 +8,8 @@ import { defaultEngineSettings } from '#shared/utils/engineSettings'
 import { files, productChanges, products } from '../db/schema'
 import { encodeWav, makeSeededRandom, makeSurfaceSignal, makeToneSignal } from '../audio/synth'
 import type { Storage } from 'unstorage'
-import type { Database } from './db'
+import type { Database } from '../utils/platform/db'
+import { uploadStorage } from '../utils/platform/uploads'
 
 type NewProduct = typeof products.$inferInsert
 

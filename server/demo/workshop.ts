@@ -6,7 +6,13 @@ import { eq, inArray } from 'drizzle-orm'
 import type { CylinderFormat } from '#shared/utils/cylinder'
 import { blankLog, blanks, settings, surfaceTests, users, waxBatches } from '../db/schema'
 import { analyseSurfaceWav, makeSurfaceWav, surfaceThresholdsSchema, type SurfaceAnalysis, type SurfaceThresholds, type SurfaceWavOptions } from '../audio'
-import type { Database } from './db'
+import { blankStateAfterTest, isSurfaceOverrule, surfaceVerdictWithoutOverrule, type BlankState } from '#shared/utils/blankLifecycle'
+import type { EngineSettings } from '#shared/utils/engineSettings'
+import type { BlankReshaveLogData, BlankStateLogData } from '#shared/utils/workshopSchemas'
+import type { Database } from '../utils/platform/db'
+import { storeFile } from '../utils/platform/uploads'
+import { blankReamingRecord, blankShavingRecord, drawBlankCodes } from '../utils/workshop/blanks'
+import { getSetting } from '../utils/workshop/settings'
 
 const DAY_MS = 86_400_000
 const SAMPLE_RATE = 22_050

@@ -1,7 +1,7 @@
 import type Stripe from 'stripe'
 import { and, eq, isNull, or, sql } from 'drizzle-orm'
-import { orderEvents, orders, refunds } from '../db/schema'
-import type { Transaction } from './db'
+import { orderEvents, orders, refunds } from '../../db/schema'
+import type { Transaction } from '../platform/db'
 
 interface Handled {
   outcome: string

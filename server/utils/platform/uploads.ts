@@ -6,8 +6,8 @@ import sharp from 'sharp'
 import type { Storage } from 'unstorage'
 import type { UploadLimit, UploadPurpose } from '#shared/utils/catalogueSchemas'
 import fsDriver from 'unstorage/drivers/fs'
-import { files } from '../db/schema'
-import { AudioInputError, decodeWav } from '../audio'
+import { files } from '../../db/schema'
+import { AudioInputError, decodeWav } from '../../audio'
 import type { Database, Transaction } from './db'
 
 export type StoredFile = typeof files.$inferSelect

@@ -1,7 +1,7 @@
 import { and, asc, count, desc, eq, ilike, inArray, ne, sql, type SQL } from 'drizzle-orm'
 import type { H3Event } from 'h3'
-import { blankCodeCounters, blankLog, blanks, orders, surfaceTests, tickets, waxBatches } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { blankCodeCounters, blankLog, blanks, orders, surfaceTests, tickets, waxBatches } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 export type BlankRow = typeof blanks.$inferSelect
 type BlankLogKind = typeof blankLog.$inferInsert['kind']

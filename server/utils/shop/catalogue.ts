@@ -1,6 +1,6 @@
 import { and, asc, count, desc, eq, ilike, or, type SQL } from 'drizzle-orm'
-import { products } from '../db/schema'
-import type { Database } from './db'
+import { products } from '../../db/schema'
+import type { Database } from '../platform/db'
 
 export type ProductRow = typeof products.$inferSelect
 

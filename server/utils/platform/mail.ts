@@ -1,7 +1,7 @@
 import { and, asc, eq, lte, sql } from 'drizzle-orm'
 import nodemailer from 'nodemailer'
 import type { Transporter } from 'nodemailer'
-import { mailOutbox } from '../db/schema'
+import { mailOutbox } from '../../db/schema'
 import type { Database, Transaction } from './db'
 
 export interface MailContent {

@@ -7,7 +7,13 @@ import { eq, inArray } from 'drizzle-orm'
 import { analyseSurfaceWav, makeSurfaceWav } from '../audio'
 import { blanks, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
 import type { EngineSettings } from '#shared/utils/engineSettings'
-import type { Database, Transaction } from './db'
+import { hashPassword } from '#imports'
+import { demoAccounts } from '#shared/utils/demoAccounts'
+import type { Database, Transaction } from '../utils/platform/db'
+import { uploadStorage } from '../utils/platform/uploads'
+import { moveBlank } from '../utils/workshop/blanks'
+import { getSetting } from '../utils/workshop/settings'
+import { eligibleBlanks, latestCurrentSurfaceTest, ticketDueDate, ticketWishesFromDetails } from '../utils/workshop/tickets'
 
 type OrderStatusValue = typeof orders.$inferSelect['status']
 type TicketStageValue = typeof tickets.$inferSelect['stage']

@@ -1,6 +1,6 @@
 import { and, asc, desc, eq, ne, sql } from 'drizzle-orm'
-import { blanks, orderItems, orders, recorders, surfaceTests, testCuts, ticketEvents, tickets, users, waxBatches } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { blanks, orderItems, orders, recorders, surfaceTests, testCuts, ticketEvents, tickets, users, waxBatches } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
 export type Ticket = typeof tickets.$inferSelect

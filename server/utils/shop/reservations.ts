@@ -1,5 +1,5 @@
 import { and, eq, lt } from 'drizzle-orm'
-import { orders } from '../db/schema'
+import { orders } from '../../db/schema'
 
 /**
  * Unpaid orders whose hold ran out: close their payment page, then give the stock back. The page is

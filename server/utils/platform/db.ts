@@ -6,7 +6,7 @@ import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator'
 import { drizzle as drizzleNodePg } from 'drizzle-orm/node-postgres'
 import { migrate as migrateNodePg } from 'drizzle-orm/node-postgres/migrator'
 import pg from 'pg'
-import * as schema from '../db/schema'
+import * as schema from '../../db/schema'
 
 export { schema }
 // The code knows only Drizzle's PostgreSQL base type: the embedded database and a server behave alike.

@@ -4,8 +4,8 @@
 // the maker account. Once any maker exists the setup route answers 409 for good.
 import { randomBytes, timingSafeEqual } from 'node:crypto'
 import { eq, sql } from 'drizzle-orm'
-import { users } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { users } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 let code: string | null = null
 

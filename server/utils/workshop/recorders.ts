@@ -1,8 +1,8 @@
 import { and, desc, eq, gte } from 'drizzle-orm'
 import { z } from 'zod'
-import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceThresholds } from '../audio'
-import { blanks, recorders, testCuts } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceThresholds } from '../../audio'
+import { blanks, recorders, testCuts } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
 export type Recorder = typeof recorders.$inferSelect

@@ -1,6 +1,13 @@
 import { sql } from 'drizzle-orm'
 import { blanks, recorders, settings, users } from '../db/schema'
-import type { Database } from './db'
+import { hashPassword } from '#imports'
+import { defaultEngineSettings } from '#shared/utils/engineSettings'
+import { demoAccounts } from '#shared/utils/demoAccounts'
+import { shopProfileSchema } from '#shared/utils/shopProfile'
+import type { Database } from '../utils/platform/db'
+import { productCount, seedDemoCatalogue } from './catalogue'
+import { seedDemoTickets } from './tickets'
+import { seedDemoWorkshop } from './workshop'
 
 /**
  * The invented demo workshop. Idempotent: every insert skips what is already there, so running it

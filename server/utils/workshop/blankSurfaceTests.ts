@@ -1,8 +1,8 @@
 import type { ZodType } from 'zod'
-import { surfaceTests } from '../db/schema'
-import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceAnalysisOptions } from '../audio'
+import { surfaceTests } from '../../db/schema'
+import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceAnalysisOptions } from '../../audio'
 import type { BlankRow } from './blanks'
-import type { Transaction } from './db'
+import type { Transaction } from '../platform/db'
 
 export type SurfaceTestRow = typeof surfaceTests.$inferSelect
 

@@ -1,6 +1,6 @@
 import { inArray } from 'drizzle-orm'
-import { products } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { products } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 export type Product = typeof products.$inferSelect
 

@@ -1,8 +1,8 @@
 import { eq } from 'drizzle-orm'
 import type { ZodType } from 'zod'
-import { surfaceThresholdsSchema } from '../audio'
-import { settings } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { surfaceThresholdsSchema } from '../../audio'
+import { settings } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 /** Each settings key has one zod schema; what is stored is re-validated on the way out, with defaults filled in. */
 const settingSchemas = {

@@ -1,6 +1,6 @@
 import { desc, eq, sql } from 'drizzle-orm'
-import { blanks, surfaceTests, waxBatches } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { blanks, surfaceTests, waxBatches } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 export type WaxBatchRow = typeof waxBatches.$inferSelect
 

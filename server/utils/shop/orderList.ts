@@ -1,7 +1,7 @@
 import { and, asc, count, desc, eq, ilike, or, sql, type SQL } from 'drizzle-orm'
 import { z } from 'zod'
-import { orders } from '../db/schema'
-import type { Database } from './db'
+import { orders } from '../../db/schema'
+import type { Database } from '../platform/db'
 
 export const orderListQuerySchema = z.object({
   status: z.enum(orders.status.enumValues, { error: `status must be one of ${orders.status.enumValues.join(', ')}` }).optional(),

@@ -1,6 +1,6 @@
 import { and, count, eq, gte, min, or } from 'drizzle-orm'
 import type { H3Event } from 'h3'
-import { resetRequests, signInFailures } from '../db/schema'
+import { resetRequests, signInFailures } from '../../db/schema'
 
 const signInWindowMs = 15 * 60 * 1000
 const perAccountLimit = 5

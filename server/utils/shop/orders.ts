@@ -1,7 +1,7 @@
 import { createHmac, timingSafeEqual } from 'node:crypto'
 import { and, eq, ne, sql } from 'drizzle-orm'
-import { orderEvents, orderItems, orders, products, refundItems, refunds } from '../db/schema'
-import type { Database, Transaction } from './db'
+import { orderEvents, orderItems, orders, products, refundItems, refunds } from '../../db/schema'
+import type { Database, Transaction } from '../platform/db'
 
 export type Order = typeof orders.$inferSelect
 type OrderStatusValue = Order['status']
