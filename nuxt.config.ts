@@ -25,7 +25,7 @@ export default defineNuxtConfig({
   runtimeConfig: {
     // Every key can be set at run time with NUXT_<KEY> (e.g. NUXT_DB_DIR, NUXT_SMTP_PORT).
     dbDir: '.data/db',
-    // The sign-in cookie lives 30 days from its last renewal; server/utils/auth.ts renews it, with the
+    // The sign-in cookie lives 30 days from its last renewal; server/utils/account/auth.ts renews it, with the
     // session's row, at most once a day of use. The row decides: after sign-out the cookie is dead.
     session: { cookie: { maxAge: 60 * 60 * 24 * 30 } },
     // Uploaded photos and audio samples (Nitro storage `uploads`): `fs` keeps them in `uploadsDir`;
@@ -83,7 +83,7 @@ export default defineNuxtConfig({
   // Response headers (README "Security"). Pages: a CSP with a fresh nonce per request for inline
   // scripts, no framing, no referrer to other sites. The module's request-size limiter, rate limiter,
   // CORS handler and XSS filter are off: server/middleware/body-limit.ts and each upload route check
-  // sizes, server/utils/throttle.ts limits sign-in, no other origin may call the API, and the XSS
+  // sizes, server/utils/account/throttle.ts limits sign-in, no other origin may call the API, and the XSS
   // filter would refuse honest text with "<" in it and read whole uploads before their size is checked.
   security: {
     nonce: true,
@@ -133,7 +133,7 @@ export default defineNuxtConfig({
   nitro: {
     ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
     storage: {
-      // Re-mounted at run time at `uploadsDir` (NUXT_UPLOADS_DIR) by server/utils/uploads.ts, unless
+      // Re-mounted at run time at `uploadsDir` (NUXT_UPLOADS_DIR) by server/utils/platform/uploads.ts, unless
       // NUXT_UPLOADS_DRIVER=build: then this mount is used as it is (put a shared driver here).
       uploads: { driver: 'fs', base: '.data/uploads' },
     },

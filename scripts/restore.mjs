@@ -18,7 +18,7 @@ const dbDir = resolve(process.env.NUXT_DB_DIR ?? '.data/db')
 const uploadsDir = resolve(process.env.NUXT_UPLOADS_DIR ?? '.data/uploads')
 const port = Number(process.env.PORT ?? 3000)
 
-// The server leaves `<db dir>.owner` with its pid while it has the database open (server/utils/db.ts).
+// The server leaves `<db dir>.owner` with its pid while it has the database open (server/utils/platform/db.ts).
 function ownerPid() {
   try {
     const { pid } = JSON.parse(readFileSync(`${dbDir}.owner`, 'utf8'))

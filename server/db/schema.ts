@@ -61,7 +61,7 @@ export const signInFailures = pgTable('sign_in_failures', {
   index('sign_in_failures_address').on(table.address, table.at),
 ])
 
-// Password-reset requests, for their rate limit (server/utils/throttle.ts); any e-mail, account or not.
+// Password-reset requests, for their rate limit (server/utils/account/throttle.ts); any e-mail, account or not.
 export const resetRequests = pgTable('reset_requests', {
   id: serial('id').primaryKey(),
   email: text('email').notNull(),
@@ -90,7 +90,7 @@ export const userSessions = pgTable('user_sessions', {
   idHash: text('id_hash').primaryKey(),
   userId: integer('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
-  // Moved forward at most once a day while the session is used (server/utils/auth.ts).
+  // Moved forward at most once a day while the session is used (server/utils/account/auth.ts).
   lastSeenAt: timestamp('last_seen_at', { withTimezone: true }).notNull().defaultNow(),
   expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
 }, table => [

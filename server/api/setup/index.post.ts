@@ -1,4 +1,4 @@
-// Make the shop's first maker account with the setup code the server printed (server/utils/setup.ts).
+// Make the shop's first maker account with the setup code the server printed (server/utils/account/setup.ts).
 import { users } from '../../db/schema'
 
 export default defineEventHandler(async (event) => {

@@ -32,7 +32,7 @@ export default defineEventHandler(async (event) => {
     const ready = (await eligibleBlanks(db, format, { limit: 10_000 })).length
     return { format, ready, low: ready < lowBlankCount }
   }))
-  // The register's own rule (server/utils/blankBatches.ts), so the two pages agree.
+  // The register's own rule (server/utils/workshop/blankBatches.ts), so the two pages agree.
   const batches = await listWaxBatchesWithYield(db)
   const revenue = await db.select({
     currency: orders.currency,
