@@ -2,6 +2,7 @@ import { sql } from 'drizzle-orm'
 import { boolean, check, date, doublePrecision, index, integer, jsonb, pgEnum, pgSequence, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core'
 // Each enum's values are defined once, in the shared code the pages and forms use too.
 import { userRoles } from '../../shared/types/auth'
+import type { SurfaceAnalysis } from '../audio'
 import { blankStates } from '../../shared/utils/blankLifecycle'
 import { cylinderFormats } from '../../shared/utils/cylinder'
 import { orderStatuses } from '../../shared/utils/shopSchemas'
@@ -332,7 +333,7 @@ export const surfaceTests = pgTable('surface_tests', {
   fileId: text('file_id').references(() => files.id, { onDelete: 'set null' }),
   rpm: integer('rpm').notNull(),
   // The audio engine's full answer (levels, once-per-turn, clicks, spectrum, envelope).
-  figures: jsonb('figures').$type<Record<string, unknown>>().notNull(),
+  figures: jsonb('figures').$type<SurfaceAnalysis>().notNull(),
   aWeightedDbfs: doublePrecision('a_weighted_dbfs').notNull(),
   rotaryDb: doublePrecision('rotary_db').notNull(),
   clicksPerMinute: doublePrecision('clicks_per_minute').notNull(),
@@ -362,7 +363,7 @@ export const testCuts = pgTable('test_cuts', {
   recorderId: integer('recorder_id').notNull().references(() => recorders.id, { onDelete: 'cascade' }),
   blankId: integer('blank_id').references(() => blanks.id, { onDelete: 'set null' }),
   fileId: text('file_id').references(() => files.id, { onDelete: 'set null' }),
-  figures: jsonb('figures').$type<Record<string, unknown>>().notNull(),
+  figures: jsonb('figures').$type<SurfaceAnalysis>().notNull(),
   aWeightedDbfs: doublePrecision('a_weighted_dbfs').notNull(),
   clicksPerMinute: doublePrecision('clicks_per_minute').notNull(),
   verdict: testVerdict('verdict').notNull(),

@@ -134,7 +134,7 @@ async function seedDemoRecorders(db: Database, now: number) {
       await tx.insert(testCuts).values(cuts.map(cut => ({
         recorderId: inserted.id,
         fileId: cut.id,
-        figures: { ...cut.analysis },
+        figures: cut.analysis,
         aWeightedDbfs: cut.analysis.aWeightedDbfs,
         clicksPerMinute: cut.analysis.clicksPerMinute,
         verdict: cut.analysis.verdict,

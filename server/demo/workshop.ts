@@ -254,7 +254,7 @@ export async function seedDemoWorkshop(db: Database) {
           surface: test.surface,
           fileId: file.id,
           rpm: RPM,
-          figures: test.analysis as unknown as Record<string, unknown>,
+          figures: test.analysis,
           aWeightedDbfs: test.analysis.aWeightedDbfs,
           rotaryDb: test.analysis.rotaryDb!,
           clicksPerMinute: test.analysis.clicksPerMinute,

@@ -63,7 +63,7 @@ export function surfaceTestView(test: SurfaceTestRow, testedByName: string | nul
     listeningNotes: test.listeningNotes,
     testedBy: testedByName,
     testedAt: test.testedAt,
-    figures: test.figures as unknown as SurfaceAnalysis,
+    figures: test.figures,
   }
 }
 
@@ -101,7 +101,7 @@ export async function recordBlankSurfaceTest(tx: Transaction, blank: BlankRow, i
     surface,
     fileId: file.id,
     rpm: input.rpm,
-    figures: input.analysis as unknown as Record<string, unknown>,
+    figures: input.analysis,
     aWeightedDbfs: input.analysis.aWeightedDbfs,
     rotaryDb: input.analysis.rotaryDb,
     clicksPerMinute: input.analysis.clicksPerMinute,

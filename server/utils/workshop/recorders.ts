@@ -143,7 +143,7 @@ export async function storeTestCut(tx: Db, input: { bytes: Uint8Array, name: str
     recorderId: input.recorderId,
     blankId: input.blankId,
     fileId: stored.id,
-    figures: { ...input.analysis },
+    figures: input.analysis,
     aWeightedDbfs: input.analysis.aWeightedDbfs,
     clicksPerMinute: input.analysis.clicksPerMinute,
     verdict: input.analysis.verdict,
