@@ -1,0 +1,109 @@
+import type { EngineSettings } from '#shared/utils/engineSettings'
+import { engineFigureSections, type FigureKind, type FigureRows } from '~/utils/engineFigureSections'
+
+export type FigureCell = string | boolean
+
+function read(source: unknown, path: string): unknown {
+  return path.split('.').reduce<unknown>((value, key) => (value as Record<string, unknown> | undefined)?.[key], source)
+}
+function write(target: Record<string, unknown>, path: string, value: unknown) {
+  const keys = path.split('.')
+  let node = target
+  for (const key of keys.slice(0, -1)) node = (node[key] ??= {}) as Record<string, unknown>
+  node[keys.at(-1)!] = value
+}
+
+/** Decimals of a currency's minor unit (2 for USD, 0 for JPY); 2 when the code is not one. */
+function minorDigits(currency: string): number {
+  try {
+    return new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2
+  }
+  catch {
+    return 2
+  }
+}
+
+function show(value: unknown, kind: FigureKind, digits: number): FigureCell {
+  if (kind === 'bool') return Boolean(value)
+  if (kind === 'money' && typeof value === 'number') return (value / 10 ** digits).toFixed(digits)
+  // A length on the 1/64 in rule reads as the maker says it (7/16, 1 3/16); others as decimals.
+  if (kind === 'length' && typeof value === 'number' && !Number.isInteger(value) && isWholeSixtyFourth(value)) return formatInchFraction(value)
+  if (typeof value === 'number') return String(Number(value.toPrecision(12)))
+  return value === undefined || value === null ? '' : String(value)
+}
+
+/** What the server gets: numbers where the text is one (a typographic minus or decimal comma accepted), else the text, for the server to name. */
+function parse(cell: FigureCell, kind: FigureKind, digits: number): unknown {
+  if (kind === 'bool') return Boolean(cell)
+  const text = String(cell).trim()
+  if (kind === 'text' || kind === 'length') return text
+  const cleaned = text.replace('−', '-').replace(',', '.')
+  if (cleaned === '' || !Number.isFinite(Number(cleaned))) return text
+  return kind === 'money' ? Math.round(Number(cleaned) * 10 ** digits) : Number(cleaned)
+}
+
+/**
+ * The workshop figures form over the `engine` setting: the fields and lists as text the maker edits,
+ * filled from the stored figures (or the shop defaults), and sent whole; the server validates it (zod)
+ * and names each bad field by its path, which is also each input's name.
+ */
+export async function useEngineFigures() {
+  const sections = engineFigureSections
+  const { data, refresh } = await useFetch<{ settings: EngineSettings, defaults: EngineSettings }>('/api/workshop/settings/engine', { key: 'settings-engine' })
+
+  const values = reactive<Record<string, FigureCell>>({})
+  const rows = reactive<Record<string, Record<string, FigureCell>[]>>({})
+
+  function fill(settings: EngineSettings) {
+    const digits = minorDigits(settings.prices.currency)
+    for (const section of sections) {
+      for (const field of section.fields) values[field.path] = show(read(settings, field.path), field.kind, digits)
+      for (const list of section.rows ?? []) {
+        const items = (read(settings, list.path) as unknown[]) ?? []
+        rows[list.path] = items.map(item => Object.fromEntries(list.columns.map(column => [column.path, show(read(item, column.path), column.kind, digits)])))
+      }
+    }
+  }
+  watchEffect(() => {
+    if (data.value) fill(data.value.settings)
+  })
+
+  function body(): Record<string, unknown> {
+    const digits = minorDigits(String(values['prices.currency'] ?? 'USD'))
+    const out: Record<string, unknown> = {}
+    for (const section of sections) {
+      for (const field of section.fields) write(out, field.path, parse(values[field.path] ?? '', field.kind, digits))
+      for (const list of section.rows ?? []) {
+        write(out, list.path, (rows[list.path] ?? []).map((row) => {
+          const item: Record<string, unknown> = {}
+          for (const column of list.columns) write(item, column.path, parse(row[column.path] ?? '', column.kind, digits))
+          return item
+        }))
+      }
+    }
+    return out
+  }
+
+  const { busy, done: saved, errors, submit } = useFormSubmit()
+
+  async function save() {
+    const ok = await submit(async () => {
+      await $fetch('/api/workshop/settings/engine', { method: 'PUT', body: body() })
+    })
+    if (ok) await refresh()
+  }
+
+  function useDefaults() {
+    if (data.value) fill(data.value.defaults)
+    saved.value = false
+  }
+
+  function addRow(list: FigureRows) {
+    (rows[list.path] ??= []).push(list.blank() as Record<string, FigureCell>)
+  }
+  function removeRow(list: FigureRows, index: number) {
+    rows[list.path]!.splice(index, 1)
+  }
+
+  return { sections, values, rows, busy, saved, errors, save, useDefaults, addRow, removeRow }
+}
