@@ -89,6 +89,11 @@ export interface Answer<T = any> {
   headers: Headers
 }
 
+function isSocketClosed(error: unknown): boolean {
+  const cause = (error as { cause?: { code?: string } })?.cause
+  return cause?.code === 'UND_ERR_SOCKET'
+}
+
 /** A browser-like client: keeps its own cookies and sends this site's Origin on every request. */
 export class Client {
   cookies = new Map<string, string>()
@@ -108,7 +113,15 @@ export class Client {
       body = JSON.stringify(options.body)
       headers['content-type'] = 'application/json'
     }
-    const response = await fetch(target, { method: options.method ?? (body ? 'POST' : 'GET'), headers, body, redirect: 'manual' })
+    const method = options.method ?? (body ? 'POST' : 'GET')
+    const send = () => fetch(target, { method, headers, body, redirect: 'manual' })
+    const response = await send().catch((error: unknown) => {
+      // A kept-alive connection the server closed for idleness just as it was reused (a race of timers
+      // on a loaded machine): a read is sent once more on a fresh one. A server that really drops the
+      // request drops it again, so the second try still fails.
+      if ((method === 'GET' || method === 'HEAD') && isSocketClosed(error)) return send()
+      throw error
+    })
     for (const line of response.headers.getSetCookie()) {
       const [pair] = line.split(';')
       const [name, ...rest] = pair!.split('=')
