@@ -1,0 +1,116 @@
+import type { InternalApi } from 'nitropack/types'
+import type { CheckoutForm } from '~/utils/checkoutFields'
+
+export interface CartChange { slug: string, kind: string, message: string }
+
+/**
+ * The cart page's data: the server's quote for the cart (re-asked whenever the lines, the zone or the
+ * tax region change), the changes the customer must accept, and the checkout form with its submit.
+ */
+export function useCartCheckout() {
+  const cart = useCartStore()
+  const user = useCurrentUser()
+
+  const quote = ref<CartQuote | null>(null)
+  const quoteError = ref('')
+  const zone = ref<string | undefined>()
+  const taxRegion = ref<string | undefined>()
+  const pendingChanges = ref<CartChange[]>([])
+  const { busy, errors, submit } = useFormSubmit()
+  const form = reactive<CheckoutForm>({
+    email: user.value?.email ?? '',
+    name: user.value?.name ?? '',
+    line1: '',
+    line2: '',
+    city: '',
+    region: '',
+    postalCode: '',
+    country: '',
+  })
+
+  function fetchQuote() {
+    return $fetch('/api/cart/quote', {
+      method: 'POST',
+      body: { items: cart.lines.map(line => ({ slug: line.slug, qty: line.qty, seenUnitPriceMinor: line.seenUnitPriceMinor })), zone: zone.value, taxRegion: taxRegion.value },
+    })
+  }
+
+  async function refreshQuote() {
+    quoteError.value = ''
+    if (cart.lines.length === 0) {
+      quote.value = null
+      return
+    }
+    try {
+      quote.value = await fetchQuote()
+      zone.value = quote.value.zone
+      taxRegion.value = quote.value.taxRegion
+      pendingChanges.value = quote.value.changes
+    }
+    catch (error) {
+      quoteError.value = (error as { data?: { message?: string } }).data?.message ?? 'The prices could not be checked just now.'
+    }
+  }
+
+  onMounted(refreshQuote)
+  watch(() => cart.lines.map(line => `${line.slug}:${line.qty}`).join(), refreshQuote)
+  watch([zone, taxRegion], refreshQuote)
+
+  function acceptChanges() {
+    if (!quote.value) return
+    cart.acceptQuote(quote.value.lines)
+    pendingChanges.value = []
+  }
+
+  // One key per distinct checkout request: pressing the button again (or a retry after a lost answer)
+  // with the same cart and address sends the same key, and the server answers with the order it already
+  // made instead of holding the stock twice. Any change to the cart or the form makes a new key.
+  let keyedBody = ''
+  let checkoutKey = ''
+  function keyFor(body: unknown) {
+    const fingerprint = JSON.stringify(body)
+    if (fingerprint !== keyedBody) {
+      keyedBody = fingerprint
+      checkoutKey = [...crypto.getRandomValues(new Uint8Array(18))].map(byte => byte.toString(16).padStart(2, '0')).join('')
+    }
+    return checkoutKey
+  }
+
+  async function pay() {
+    errors.clear()
+    if (pendingChanges.value.length) return
+    await submit(async () => {
+      const { line1, line2, city, region, postalCode, country, name } = form
+      const body = {
+        items: cart.lines.map(line => ({ slug: line.slug, qty: line.qty, seenUnitPriceMinor: line.seenUnitPriceMinor })),
+        email: form.email,
+        shippingAddress: { name, line1, line2: line2 || undefined, city, region: region || undefined, postalCode, country },
+        zone: zone.value,
+        taxRegion: taxRegion.value,
+      }
+      const answer = await $fetch('/api/checkout', { method: 'POST', body: { ...body, checkoutKey: keyFor(body) } })
+      window.location.assign(answer.url!)
+    }, {
+      leaving: true,
+      failed: async (error) => {
+        const fields = errors.fields.value
+        // Address fields arrive as shippingAddress.name etc.; show them beside the inputs.
+        for (const key of Object.keys(fields)) {
+          if (key.startsWith('shippingAddress.')) fields[key.slice('shippingAddress.'.length)] = fields[key]!
+        }
+        const data = (error as { data?: { data?: { changes?: CartChange[] } } }).data?.data
+        if (data?.changes) {
+          pendingChanges.value = data.changes
+          await refreshQuote()
+        }
+      },
+    })
+  }
+
+  const holdMinutes = computed(() => quote.value?.holdMinutes ?? 30)
+
+  return { cart, quote, quoteError, zone, taxRegion, pendingChanges, acceptChanges, form, busy, errors, pay, holdMinutes }
+}
+
+/** The server's answer to `POST /api/cart/quote`. */
+export type CartQuote = InternalApi['/api/cart/quote']['post']
