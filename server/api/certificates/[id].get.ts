@@ -10,7 +10,7 @@ export default defineEventHandler(async (event) => {
   const user = await currentUser(event)
   const found = await ticketCertificate(await useDB(), id)
   if (!found || !mayReadOrderCertificates(user, found.order, t)) {
-    throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such certificate.' })
+    throw notFoundError('No such certificate.')
   }
   return found.certificate
 })

@@ -13,7 +13,7 @@ export default defineEventHandler(async (event) => {
   const user = await currentUser(event)
   const db = await useDB()
   const [order] = await db.select({ id: orders.id, number: orders.number, userId: orders.userId }).from(orders).where(eq(orders.number, query.order))
-  if (!order || !mayReadOrderCertificates(user, order, query.t)) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such order.' })
+  if (!order || !mayReadOrderCertificates(user, order, query.t)) throw notFoundError('No such order.')
   const rows = await db.select({ ticketId: tickets.id, orderItemId: tickets.orderItemId, unit: tickets.unit, title: orderItems.title, cutAt: tickets.cutAt })
     .from(tickets).innerJoin(orderItems, eq(orderItems.id, tickets.orderItemId))
     .where(and(eq(tickets.orderId, order.id), inArray(tickets.stage, certifiedTicketStages)))

@@ -17,6 +17,6 @@ export default defineEventHandler(async (event) => {
     || (user && order.userId === user.id)
     || (t !== undefined && orderAccessTokenValid(order.number, t))
   )
-  if (!order || !allowed) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such order.' })
+  if (!order || !allowed) throw notFoundError('No such order.')
   return await orderView(db, order)
 })

@@ -4,7 +4,7 @@ import { users } from '../../db/schema'
 export default defineEventHandler(async (event) => {
   const input = await readBodyWith(event, setupSchema)
   const db = await useDB()
-  const done = () => createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This shop has its maker already: sign in instead.' })
+  const done = () => conflictError('This shop has its maker already: sign in instead.')
   if (await makerExists(db)) throw done()
   if (!setupCodeMatches(input.code)) throw fieldError('code', 'this is not the setup code: copy the link again from the server\'s log')
   const passwordHash = await hashPassword(input.password)

@@ -1,7 +1,7 @@
 import { and, eq, or, sql } from 'drizzle-orm'
 import { files, products } from '../../db/schema'
 
-const notFound = () => createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such file.' })
+const notFound = () => notFoundError('No such file.')
 
 /** Whether a product the shop shows (not hidden) has this file among its photos or as its sample. */
 async function shownInShop(db: Awaited<ReturnType<typeof useDB>>, id: string): Promise<boolean> {

@@ -13,7 +13,7 @@ import { create as createTar } from 'tar'
 export async function writeBackupArchive(target: string): Promise<{ file: string, bytes: number }> {
   const database = await dumpEmbeddedDatabase()
   if (!database) {
-    throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This shop runs on a PostgreSQL server: back it up with pg_dump; upload files live in the configured storage.' })
+    throw conflictError('This shop runs on a PostgreSQL server: back it up with pg_dump; upload files live in the configured storage.')
   }
   const work = await mkdtemp(join(tmpdir(), 'gw-backup-'))
   try {

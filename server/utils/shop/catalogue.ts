@@ -45,7 +45,7 @@ export async function searchCatalogue(db: Database, query: CatalogueQuery) {
   if (query.kind) filters.push(eq(products.kind, query.kind))
   if (query.format) filters.push(eq(products.format, query.format))
   if (query.q) {
-    const pattern = `%${query.q.replace(/[%_\\]/g, ch => `\\${ch}`)}%`
+    const pattern = containsPattern(query.q)
     filters.push(or(ilike(products.title, pattern), ilike(products.performer, pattern), ilike(products.description, pattern), ilike(products.material, pattern))!)
   }
   const where = and(...filters)

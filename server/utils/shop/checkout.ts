@@ -12,14 +12,6 @@ export type CheckoutOutcome = { order: Order, quote: CartQuote } | { earlier: Or
 
 class CheckoutSoldOut extends Error {}
 
-/** A unique-index violation on the orders' checkout key, however the driver wraps it. */
-function isCheckoutKeyClash(error: unknown): boolean {
-  for (let cause = error as { code?: string, constraint?: string, message?: string, cause?: unknown } | undefined; cause; cause = cause.cause as typeof cause) {
-    if (cause.code === '23505' && `${cause.constraint ?? ''} ${cause.message ?? ''}`.includes('checkout_key')) return true
-  }
-  return false
-}
-
 /**
  * Prices the cart from the database, reserves the stock and writes the order in one transaction. A
  * checkout key already used finds the order its first request made; a cart whose prices or stock
@@ -74,7 +66,7 @@ export async function placeCheckoutOrder(db: Database, input: CheckoutInput, use
       throw createError({ statusCode: 409, statusMessage: 'Sold out', message: `Sorry — ${error.message} sold out while you were checking out. Nothing was charged.`, data: { soldOut: true } })
     }
     // Should two requests with one key ever get past the lock (another database), the index still holds.
-    if (input.checkoutKey && isCheckoutKeyClash(error)) {
+    if (input.checkoutKey && isUniqueViolation(error, 'checkout_key')) {
       const [earlier] = await db.select().from(orders).where(eq(orders.checkoutKey, input.checkoutKey))
       if (earlier) return { earlier }
     }

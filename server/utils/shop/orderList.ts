@@ -25,7 +25,7 @@ export async function listOrders(db: Database, query: OrderListQuery, limit?: nu
   const filters: SQL[] = []
   if (query.status) filters.push(eq(orders.status, query.status))
   if (query.q) {
-    const pattern = `%${query.q.replace(/[%_\\]/g, ch => `\\${ch}`)}%`
+    const pattern = containsPattern(query.q)
     filters.push(or(ilike(orders.number, pattern), ilike(orders.email, pattern), ilike(sql`${orders.shippingAddress}->>'name'`, pattern))!)
   }
   const where = filters.length ? and(...filters) : undefined

@@ -85,7 +85,7 @@ export async function cancelUnpaidOrder(order: Order, note: string, actorUserId?
   // Closing the page sends its own expiry event, which may have cancelled the order first.
   const [now] = await db.select({ number: orders.number, status: orders.status }).from(orders).where(eq(orders.id, order.id))
   if (now?.status === 'cancelled') return now
-  throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'The order changed meanwhile (perhaps it was just paid); reload it.', data: { status: now?.status } })
+  throw conflictError('The order changed meanwhile (perhaps it was just paid); reload it.', { status: now?.status })
 }
 
 /**

@@ -55,7 +55,7 @@ const refundable = new Set(['paid', 'in_production', 'proof_pending', 'ready_to_
 export async function requestRefund(db: Database, number: string, input: RefundRequest, makerId: number) {
   const refund = await db.transaction(async (tx) => {
     const [order] = await tx.select().from(orders).where(eq(orders.number, number)).for('update')
-    if (!order) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such order.' })
+    if (!order) throw notFoundError('No such order.')
     if (!refundable.has(order.status) || !order.paymentIntentId) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `An order that is ${order.status} cannot be refunded.` })
     // Refunds asked for but not yet confirmed count too, so two clicks cannot refund twice.
     const [asked] = await tx.select({ total: sum(refunds.amountMinor) }).from(refunds).where(and(eq(refunds.orderId, order.id), ne(refunds.status, 'failed')))

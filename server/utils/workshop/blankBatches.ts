@@ -30,8 +30,7 @@ export async function listWaxBatchesWithYield(db: Database) {
 
 /** A 409 that names the field when a batch code is taken (the unique index decides, not a lookup). */
 export function isWaxBatchCodeTaken(error: unknown): boolean {
-  const cause = (error as { cause?: { code?: string, constraint?: string } })?.cause ?? error as { code?: string, constraint?: string }
-  return cause?.code === '23505'
+  return isUniqueViolation(error)
 }
 
 export function waxBatchCodeTaken(code: string) {

@@ -171,7 +171,7 @@ export async function listBlankRegister(db: Database, query: BlankRegisterQuery,
   if (query.state) filters.push(eq(blanks.state, query.state))
   if (query.format) filters.push(eq(blanks.format, query.format))
   if (query.batch) filters.push(eq(waxBatches.code, query.batch))
-  if (query.q) filters.push(ilike(blanks.code, `%${query.q.replace(/[%_\\]/g, ch => `\\${ch}`)}%`))
+  if (query.q) filters.push(ilike(blanks.code, containsPattern(query.q)))
   const where = filters.length ? and(...filters) : undefined
   const pageSize = limit ?? query.pageSize
 

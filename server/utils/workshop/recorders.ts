@@ -211,6 +211,5 @@ export async function recorderCutHistory(db: Db, recorderId: number, limit = 200
 }
 
 export function isRecorderNameTaken(error: unknown): boolean {
-  const cause = (error as { cause?: { code?: string, constraint?: string } })?.cause
-  return cause?.code === '23505' && cause.constraint === 'recorders_name_unique'
+  return isUniqueViolation(error, 'recorders_name_unique')
 }

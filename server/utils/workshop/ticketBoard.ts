@@ -46,7 +46,7 @@ export async function ticketBoard(db: Database, query: z.output<typeof ticketBoa
     query.format ? eq(tickets.format, query.format) : undefined,
     query.due ? dueFilter[query.due] : undefined,
     query.stage === 'recut' ? sql`${recutCount} > 0` : query.stage ? eq(tickets.stage, query.stage) : undefined,
-    query.q ? ilike(orders.number, `%${query.q.replace(/[%_\\]/g, ch => `\\${ch}`)}%`) : undefined,
+    query.q ? ilike(orders.number, containsPattern(query.q)) : undefined,
   )
   const rows = await db.select({
     id: tickets.id, stage: tickets.stage, format: tickets.format, dueDate: tickets.dueDate, wishes: tickets.wishes,

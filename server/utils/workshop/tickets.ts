@@ -7,8 +7,7 @@ export type Ticket = typeof tickets.$inferSelect
 type Blank = typeof blanks.$inferSelect
 type TicketStageValue = Ticket['stage']
 
-const conflict = (message: string) => createError({ statusCode: 409, statusMessage: 'Conflict', message })
-const ticketNotFound = () => createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such ticket.' })
+const ticketNotFound = () => notFoundError('No such ticket.')
 
 /** A date `days` after `from`, as the calendar date (UTC) a ticket is due. */
 export function ticketDueDate(from: Date, days = ticketLeadTimeDays): string {
@@ -106,7 +105,7 @@ export async function eligibleBlanks(db: Db, format: Blank['format'], options: {
   }).from(surfaceTests)
     .where(and(eq(surfaceTests.blankId, blanks.id), eq(surfaceTests.surface, sql`${blanks.surfacesUsed} + 1`)))
     .orderBy(desc(surfaceTests.testedAt), desc(surfaceTests.id)).limit(1).as('latest_test')
-  const pattern = options.code ? `%${options.code.replace(/[%_\\]/g, ch => `\\${ch}`)}%` : undefined
+  const pattern = options.code ? containsPattern(options.code) : undefined
   return await db.select({
     id: blanks.id,
     code: blanks.code,
@@ -151,8 +150,7 @@ async function blankRefusal(db: Db, ticket: Ticket, blank: Blank): Promise<strin
 }
 
 function isOpenBlankViolation(error: unknown): boolean {
-  const cause = (error as { cause?: { code?: string, constraint?: string } })?.cause ?? (error as { code?: string, constraint?: string })
-  return cause?.code === '23505' && cause.constraint === 'tickets_open_blank'
+  return isUniqueViolation(error, 'tickets_open_blank')
 }
 
 /**
@@ -169,17 +167,17 @@ export async function assignBlankToTicket(db: Database, ticketId: number, blankC
       const [order] = await tx.select({ status: orders.status }).from(orders).where(eq(orders.id, ticket.orderId))
       const kind = await ticketKindById(tx, ticket)
       const problem = ticketMoveProblem({ id: ticket.id, stage: ticket.stage, kind }, 'blank_assigned', order!.status, 'assign')
-      if (problem) throw conflict(problem)
+      if (problem) throw conflictError(problem)
       const [blank] = await tx.select().from(blanks).where(eq(blanks.code, blankCode))
       if (!blank) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `blankCode: no blank in the register has the code ${blankCode}.`, data: { fields: { blankCode: 'no such blank' } } })
       blankId = blank.id
       const refusal = await blankRefusal(tx, ticket, blank)
-      if (refusal) throw conflict(refusal)
+      if (refusal) throw conflictError(refusal)
 
       const previous = ticket.blankId ? (await tx.select().from(blanks).where(eq(blanks.id, ticket.blankId)))[0] : undefined
       await tx.update(tickets).set({ blankId: blank.id, stage: 'blank_assigned', updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
       const reserved = await moveBlank(tx, blank.id, { from: 'tested_pass', to: 'reserved', reason: `Reserved for ticket #${ticket.id}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
-      if (!reserved) throw conflict(`Blank ${blank.code} changed meanwhile; reload and choose again.`)
+      if (!reserved) throw conflictError(`Blank ${blank.code} changed meanwhile; reload and choose again.`)
       let note = `Blank ${blank.code} assigned.`
       if (previous) {
         // An uncut blank goes back on the shelf; one carrying a rejected cut stays cut, for the register to deal with.
@@ -194,7 +192,7 @@ export async function assignBlankToTicket(db: Database, ticketId: number, blankC
   catch (error) {
     if (blankId !== undefined && isOpenBlankViolation(error)) {
       const holder = await openTicketHoldingBlank(db, blankId, ticketId)
-      throw conflict(`Blank ${blankCode} is already held by ticket #${holder?.id ?? '?'}${holder ? ` (order ${holder.orderNumber})` : ''}.`)
+      throw conflictError(`Blank ${blankCode} is already held by ticket #${holder?.id ?? '?'}${holder ? ` (order ${holder.orderNumber})` : ''}.`)
     }
     throw error
   }
@@ -216,11 +214,11 @@ export async function lockTicketForMove(tx: Transaction, ticketId: number) {
 /** Checks that the ticket's blank can take the cut now: reserved for it, its current surface tested and passed. */
 export async function blankReadyForCut(tx: Transaction, ticket: Ticket): Promise<Blank> {
   const [blank] = ticket.blankId ? await tx.select().from(blanks).where(eq(blanks.id, ticket.blankId)) : []
-  if (!blank) throw conflict(`Ticket #${ticket.id} has no blank yet: assign a tested blank before recording the cut.`)
-  if (blank.state === 'cut') throw conflict(`Blank ${blank.code} carries the rejected cut: change the blank (assign a fresh tested one) before cutting again.`)
-  if (blank.state !== 'reserved') throw conflict(`Blank ${blank.code} is ${blankStateLabels[blank.state].toLowerCase()}, not reserved for this ticket: assign a tested blank again.`)
+  if (!blank) throw conflictError(`Ticket #${ticket.id} has no blank yet: assign a tested blank before recording the cut.`)
+  if (blank.state === 'cut') throw conflictError(`Blank ${blank.code} carries the rejected cut: change the blank (assign a fresh tested one) before cutting again.`)
+  if (blank.state !== 'reserved') throw conflictError(`Blank ${blank.code} is ${blankStateLabels[blank.state].toLowerCase()}, not reserved for this ticket: assign a tested blank again.`)
   const test = await latestCurrentSurfaceTest(tx, blank)
-  if (test?.finalVerdict !== 'pass') throw conflict(`Blank ${blank.code} has no passing test on its current surface: assign a tested blank.`)
+  if (test?.finalVerdict !== 'pass') throw conflictError(`Blank ${blank.code} has no passing test on its current surface: assign a tested blank.`)
   return blank
 }
 
@@ -237,7 +235,7 @@ export async function changeTicketStage(db: Database, ticketId: number, change: 
   return await db.transaction(async (tx) => {
     const { ticket, order, kind } = await lockTicketForMove(tx, ticketId)
     const problem = ticketMoveProblem({ id: ticket.id, stage: ticket.stage, kind }, change.to, order.status, 'stage')
-    if (problem) throw conflict(problem)
+    if (problem) throw conflictError(problem)
     const recut = change.to === 'recut' || change.to === 'blank_assigned'
     if (recut && !change.note) throw fieldError('note', 'say why the cylinder is cut again')
     const to: TicketStageValue = change.to === 'recut' ? 'blank_assigned' : change.to

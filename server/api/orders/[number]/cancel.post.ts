@@ -18,6 +18,6 @@ export default defineEventHandler(async (event) => {
   const db = await useDB()
   const [order] = await db.select().from(orders).where(eq(orders.number, number.toUpperCase()))
   const allowed = order && ((user && order.userId === user.id) || (t !== undefined && orderAccessTokenValid(order.number, t)))
-  if (!order || !allowed) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such order.' })
+  if (!order || !allowed) throw notFoundError('No such order.')
   return await cancelUnpaidOrder(order, 'Given up by the customer on leaving the payment page.')
 })

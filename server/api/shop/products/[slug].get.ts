@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const { slug } = paramsWith(event, paramsSchema)
   const db = await useDB()
   const [product] = await db.select().from(products).where(and(eq(products.slug, slug), eq(products.hidden, false)))
-  if (!product || product.kind === 'custom') throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such cylinder in the shop.' })
+  if (!product || product.kind === 'custom') throw notFoundError('No such cylinder in the shop.')
   const settings = await getSetting('engine', db)
   return publicProduct(product, settings.prices.currency)
 })

@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const filters: SQL[] = [inArray(products.kind, query.kind ? [query.kind] : [...editableProductKinds])]
   if (query.visibility !== 'all') filters.push(eq(products.hidden, query.visibility === 'hidden'))
   if (query.q) {
-    const pattern = `%${query.q.replace(/[%_\\]/g, ch => `\\${ch}`)}%`
+    const pattern = containsPattern(query.q)
     filters.push(or(ilike(products.title, pattern), ilike(products.performer, pattern), ilike(products.slug, pattern), ilike(products.material, pattern))!)
   }
   const db = await useDB()

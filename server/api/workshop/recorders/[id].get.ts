@@ -4,7 +4,7 @@ export default defineEventHandler(async (event) => {
   const { id } = paramsWith(event, idParamsSchema)
   const db = await useDB()
   const recorder = await findRecorder(db, id).catch(() => {
-    throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such recorder.' })
+    throw notFoundError('No such recorder.')
   })
   const ranking = await rankRecorders(db)
   const cuts = await recorderCutHistory(db, id)

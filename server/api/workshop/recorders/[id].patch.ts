@@ -10,7 +10,7 @@ export default defineEventHandler(async (event) => {
     const [updated] = Object.keys(input).length
       ? await db.update(recorders).set(input).where(eq(recorders.id, id)).returning()
       : await db.select().from(recorders).where(eq(recorders.id, id))
-    if (!updated) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such recorder.' })
+    if (!updated) throw notFoundError('No such recorder.')
     return updated
   }
   catch (error) {

@@ -10,6 +10,6 @@ export default defineEventHandler(async (event) => {
     .innerJoin(recorders, eq(recorders.id, testCuts.recorderId))
     .leftJoin(blanks, eq(blanks.id, testCuts.blankId))
     .where(eq(testCuts.id, id))
-  if (!row) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such test cut.' })
+  if (!row) throw notFoundError('No such test cut.')
   return { ...row.cut, recorderName: row.recorderName, blankCode: row.blankCode, fileUrl: row.cut.fileId ? storedFileUrl(row.cut.fileId) : null }
 })

@@ -10,11 +10,11 @@ export default defineEventHandler(async (event) => {
     // Lock the makers so that two demotions at once cannot leave the shop without one.
     await tx.execute(sql`select id from users where role = 'maker' for update`)
     const [target] = await tx.select().from(users).where(eq(users.id, id)).limit(1)
-    if (!target) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such user.' })
+    if (!target) throw notFoundError('No such user.')
     if (target.role === 'maker' && role !== 'maker') {
       const [others] = await tx.select({ n: count() }).from(users).where(and(eq(users.role, 'maker'), ne(users.id, id)))
       if ((others?.n ?? 0) === 0) {
-        throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'role: at least one maker must remain; make someone else a maker first.' })
+        throw conflictError('role: at least one maker must remain; make someone else a maker first.')
       }
     }
     if (target.role === role) return target

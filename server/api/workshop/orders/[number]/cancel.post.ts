@@ -10,7 +10,7 @@ export default defineEventHandler(async (event) => {
   const { number } = paramsWith(event, paramsSchema)
   const db = await useDB()
   const [order] = await db.select().from(orders).where(eq(orders.number, number))
-  if (!order) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such order.' })
+  if (!order) throw notFoundError('No such order.')
   // The maker is told when there is nothing left to cancel (the customer's own route answers calmly instead).
   if (order.status !== 'awaiting_payment') throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `Only an unpaid order can be cancelled; this one is ${order.status}.` })
   return await cancelUnpaidOrder(order, 'Cancelled by the workshop.', maker.id)

@@ -9,7 +9,7 @@ export default defineEventHandler(async (event) => {
   const { number } = paramsWith(event, paramsSchema)
   const db = await useDB()
   const [order] = await db.select().from(orders).where(eq(orders.number, number))
-  if (!order) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such order.' })
+  if (!order) throw notFoundError('No such order.')
   const refundRows = await db.select().from(refunds).where(eq(refunds.orderId, order.id)).orderBy(refunds.id)
   const events = await db.select().from(paymentEvents).where(eq(paymentEvents.orderId, order.id)).orderBy(paymentEvents.receivedAt)
   const refundLines = refundRows.length

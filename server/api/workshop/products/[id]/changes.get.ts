@@ -7,7 +7,7 @@ export default defineEventHandler(async (event) => {
   const { id } = paramsWith(event, idParamsSchema)
   const db = await useDB()
   const [product] = await db.select({ id: products.id }).from(products).where(eq(products.id, id))
-  if (!product) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such product in the catalogue.' })
+  if (!product) throw notFoundError('No such product in the catalogue.')
   return await db.select({
     id: productChanges.id,
     field: productChanges.field,

@@ -6,7 +6,7 @@ export default defineEventHandler(async (event) => {
   const { id } = paramsWith(event, idParamsSchema)
   const db = await useDB()
   const [product] = await db.select().from(products).where(and(eq(products.id, id), inArray(products.kind, [...editableProductKinds])))
-  if (!product) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such product in the catalogue.' })
+  if (!product) throw notFoundError('No such product in the catalogue.')
   const settings = await getSetting('engine', db)
   return { currency: settings.prices.currency, product }
 })

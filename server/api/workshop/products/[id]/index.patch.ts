@@ -13,7 +13,7 @@ export default defineEventHandler(async (event) => {
   const db = await useDB()
   return await db.transaction(async (tx) => {
     const [current] = await tx.select().from(products).where(eq(products.id, id)).for('update')
-    if (!current || current.kind === 'custom') throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such product in the catalogue.' })
+    if (!current || current.kind === 'custom') throw notFoundError('No such product in the catalogue.')
     if (changes.stock !== undefined && stockSeen !== undefined && stockSeen !== current.stock) {
       throw createError({
         statusCode: 409,

@@ -11,6 +11,6 @@ export default defineEventHandler(async (event) => {
   const { q } = queryWith(event, querySchema)
   const db = await useDB()
   const [ticket] = await db.select({ format: tickets.format }).from(tickets).where(eq(tickets.id, id))
-  if (!ticket) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such ticket.' })
+  if (!ticket) throw notFoundError('No such ticket.')
   return { format: ticket.format, blanks: await eligibleBlanks(db, ticket.format, { code: q || undefined }) }
 })

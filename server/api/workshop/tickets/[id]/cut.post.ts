@@ -27,7 +27,7 @@ export default defineEventHandler(async (event) => {
   return await db.transaction(async (tx) => {
     const { ticket, order, kind } = await lockTicketForMove(tx, id)
     const problem = ticketMoveProblem({ id: ticket.id, stage: ticket.stage, kind }, 'cut', order.status, 'cut')
-    if (problem) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: problem })
+    if (problem) throw conflictError(problem)
     const blank = await blankReadyForCut(tx, ticket)
     const testCut = upload?.file && analysis
       ? await storeTestCut(tx, { bytes: upload.file.data, name: fileLabel(upload.file.filename, 'test-cut.wav'), analysis, recorderId: recorder.id, blankId: blank.id, notes: input.notes || `The cut of ticket #${ticket.id}.`, cutAt, userId: maker.id })

@@ -10,7 +10,7 @@ export default defineEventHandler(async (event) => {
     .innerJoin(orders, eq(orders.id, tickets.orderId))
     .innerJoin(orderItems, eq(orderItems.id, tickets.orderItemId))
     .where(eq(tickets.id, id))
-  if (!row) throw createError({ statusCode: 404, statusMessage: 'Not found', message: 'No such ticket.' })
+  if (!row) throw notFoundError('No such ticket.')
   const { ticket, order, item } = row
   const [blankRow] = ticket.blankId
     ? await db.select({ blank: blanks, batchCode: waxBatches.code }).from(blanks).innerJoin(waxBatches, eq(waxBatches.id, blanks.batchId)).where(eq(blanks.id, ticket.blankId))
