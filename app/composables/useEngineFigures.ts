@@ -49,7 +49,9 @@ function parse(cell: FigureCell, kind: FigureKind, digits: number): unknown {
  */
 export async function useEngineFigures() {
   const sections = engineFigureSections
-  const { data, refresh } = await useFetch<{ settings: EngineSettings, defaults: EngineSettings }>('/api/workshop/settings/engine', { key: 'settings-engine' })
+  // The request is awaited at the end: the watcher and the form are set up while the page's context holds.
+  const request = useFetch<{ settings: EngineSettings, defaults: EngineSettings }>('/api/workshop/settings/engine', { key: 'settings-engine' })
+  const { data, refresh } = request
 
   const values = reactive<Record<string, FigureCell>>({})
   const rows = reactive<Record<string, Record<string, FigureCell>[]>>({})
@@ -105,5 +107,6 @@ export async function useEngineFigures() {
     rows[list.path]!.splice(index, 1)
   }
 
+  await request
   return { sections, values, rows, busy, saved, errors, save, useDefaults, addRow, removeRow }
 }
