@@ -1,7 +1,7 @@
 import type { CylinderFormat } from './cylinder'
 
 /*
- * The life of a blank (PRODUCT.md, "Life cycles"):
+ * The life of a blank, as the workshop names its states:
  *   cast → reamed → shaved → tested_pass | tested_fail → reserved → cut → shipped, and scrapped;
  *   a reshave returns a blank to `shaved` with one more surface used.
  *

@@ -8,7 +8,7 @@ import { formatInches, formatLengthLabel } from './length'
  *
  * `overhangIn` is the shop's overhang reading, and it GROWS by about one reaming's travel (1/16 in) with
  * each reaming as the blank seats further on; `targetIn` is the reading of a finished fit (about 7/16 in).
- * The axial travel still needed is target − measured (PRODUCT.md, "Reaming plan"):
+ * The axial travel still needed is target − measured (the shop's reaming rule):
  *   3/16 in showing when 7/16 in is wanted → 4/16 in to go → 4 more reamings;
  *   a reading 15/16 in short of the target → 15 reamings.
  * A reading at the target is finished; a reading beyond it means the bore is already too big, and

@@ -2,7 +2,7 @@ import { z } from 'zod'
 import { idField } from './ids'
 
 /*
- * Production tickets: one per cylinder to make. The stages are the product's names (PRODUCT.md):
+ * Production tickets: one per cylinder to make. The stages are the product's own names:
  * queued → blank_assigned → cut → proof_sent → approved → to_dispatch → done, and `recut`, which
  * sends a cut cylinder back to blank_assigned. Shared by the routes (which enforce it) and the pages
  * (which offer only the moves it allows).

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { analyseSurfaceSamples, analyseSurfaceWav, countClicks, encodeWav, makeSurfaceSignal, makeSurfaceWav } from '../../server/audio'
 
-// Rotation frequency = rpm ÷ 60 (PRODUCT.md computation 1; arithmetic): 2.67 Hz at 160 rpm, 2.4 Hz at 144.
+// Rotation frequency = rpm ÷ 60 (cylinder geometry; arithmetic): 2.67 Hz at 160 rpm, 2.4 Hz at 144.
 
 describe('once-per-turn (rotary) noise', () => {
   it.each([

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { blankActionRefusal, blankStates, type BlankState } from '../../shared/utils/blankLifecycle'
 import { DB_ID_MAX, idField } from '../../shared/utils/ids'
 
-// The life-cycle table is our own rule set (PRODUCT.md, "Life cycles"); these checks pin the rows
+// The life-cycle table is our own rule set (the states named in shared/utils/blankLifecycle.ts); these checks pin the rows
 // issue 6 added: a test cut uses a fresh surface, and a reshave gives a cut blank a new one.
 
 describe('the testCut row of the blank life cycle', () => {
