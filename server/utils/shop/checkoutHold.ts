@@ -24,7 +24,7 @@ export function parseHoldMinutes(raw: unknown): number {
   return minutes
 }
 
-/** The configured hold, checked (the server refuses to start with a bad value: see plugins/checkoutHold.ts). */
+/** The configured hold, checked (the server refuses to start with a bad value: see plugins/checkSettings.ts). */
 export function checkoutHoldMinutes(): number {
   return parseHoldMinutes(useRuntimeConfig().checkoutHoldMinutes)
 }

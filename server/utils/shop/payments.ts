@@ -57,7 +57,7 @@ export function paymentSettingsProblem(settings: PaymentSettings): string | null
   return null
 }
 
-/** The configured payment settings, checked (the server refuses to start otherwise: see plugins/checkoutHold.ts). */
+/** The configured payment settings, checked (the server refuses to start otherwise: see plugins/checkSettings.ts). */
 export function checkPaymentSettings(): void {
   const problem = paymentSettingsProblem(useRuntimeConfig())
   if (problem) throw new Error(problem)
