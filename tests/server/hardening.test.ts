@@ -108,6 +108,14 @@ describe('a control character in any text is a 400 naming the field, never a 500
     await stillUp()
   })
 
+  it('a body nested far deeper than any form is a 400, not a stack overflow', async () => {
+    const depth = 100_000
+    const answer = await new Client().request('/api/cart/quote', { method: 'POST', rawBody: `{"items":${'['.repeat(depth)}${']'.repeat(depth)}}` })
+    expect(answer.status, JSON.stringify(answer.body).slice(0, 300)).toBe(400)
+    expect(Object.keys(answer.body.data.fields)[0]).toMatch(/^items(\.0)+$/)
+    await stillUp()
+  })
+
   it('tab and line breaks are still welcome in notes', async () => {
     const answer = await maker.request(`/api/workshop/blanks/${reamedBlank}`, { method: 'PATCH', body: { notes: 'first line\n\tsecond line\r\n' } })
     expect(answer.status, JSON.stringify(answer.body)).toBe(200)

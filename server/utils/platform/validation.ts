@@ -23,23 +23,31 @@ function controlCharacterName(text: string): string | undefined {
   return found === undefined ? undefined : `U+${found.charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}`
 }
 
+/** Deeper than any form of ours nests; a deeper body is refused before anything walks it. */
+const MAX_INPUT_DEPTH = 32
+
 /**
  * A 400 naming the first field (by its path, `address.line1`) whose text, or whose key, holds a
- * control character. Every JSON body, query and route parameter passes here before its schema.
+ * control character, or that nests deeper than MAX_INPUT_DEPTH. Every JSON body, query and route
+ * parameter passes here before its schema. The walk keeps its own stack: JSON.parse takes nesting far
+ * deeper than a recursive walk could follow.
  */
 export function rejectControlCharacters(value: unknown, field = ''): void {
-  if (typeof value === 'string') {
-    const name = controlCharacterName(value)
-    if (name) throw fieldError(field || 'body', `contains a control character (${name}); type plain text`)
-  }
-  else if (Array.isArray(value)) {
-    value.forEach((item, index) => rejectControlCharacters(item, field ? `${field}.${index}` : String(index)))
-  }
-  else if (value !== null && typeof value === 'object') {
-    for (const [key, item] of Object.entries(value)) {
+  const pending: { value: unknown, field: string, depth: number }[] = [{ value, field, depth: 0 }]
+  for (let next = pending.pop(); next; next = pending.pop()) {
+    const at = next.field || 'body'
+    if (typeof next.value === 'string') {
+      const name = controlCharacterName(next.value)
+      if (name) throw fieldError(at, `contains a control character (${name}); type plain text`)
+      continue
+    }
+    if (next.value === null || typeof next.value !== 'object') continue
+    if (next.depth >= MAX_INPUT_DEPTH) throw fieldError(at, `nested more than ${MAX_INPUT_DEPTH} levels deep`)
+    const entries = Array.isArray(next.value) ? next.value.map((item, index) => [String(index), item] as const) : Object.entries(next.value)
+    for (const [key, item] of entries.reverse()) {
       const name = controlCharacterName(key)
-      if (name) throw fieldError(field || 'body', `a field name contains a control character (${name})`)
-      rejectControlCharacters(item, field ? `${field}.${key}` : key)
+      if (name) throw fieldError(at, `a field name contains a control character (${name})`)
+      pending.push({ value: item, field: next.field ? `${next.field}.${key}` : key, depth: next.depth + 1 })
     }
   }
 }
