@@ -51,7 +51,7 @@ function bodyArbitrary(fieldNames: string[]) {
     { weight: 4, arbitrary: fc.dictionary(field, anyValue, { maxKeys: 6 }).map(body => ({ json: body })) },
     { weight: 1, arbitrary: fc.dictionary(field, fc.dictionary(field, anyValue, { maxKeys: 3 }), { maxKeys: 3 }).map(body => ({ json: body })) },
     { weight: 1, arbitrary: fc.jsonValue({ maxDepth: 3 }).map(body => ({ json: body })) },
-    { weight: 1, arbitrary: fc.constantFrom('{"a":', '\u0000', '[1,2', '['.repeat(20_000), 'x'.repeat(1000), '{"__proto__":{"x":1}}', '"\\u0000"').map(raw => ({ raw })) },
+    { weight: 1, arbitrary: fc.constantFrom('{"a":', '\u0000', '[1,2', '['.repeat(20_000), `{"items":${'['.repeat(50_000)}${']'.repeat(50_000)}}`, 'x'.repeat(1000), '{"__proto__":{"x":1}}', '"\\u0000"').map(raw => ({ raw })) },
   )
 }
 
