@@ -27,6 +27,36 @@ export const engineFigureSections: FigureSection[] = [
     ],
   },
   {
+    id: 'custom',
+    title: 'Personal messages',
+    lead: 'Rush, proofs and re-cuts of messages cut to order.',
+    fields: [
+      { path: 'custom.rushLeadTimeDays', label: 'Days from payment to due date, rushed', kind: 'int' },
+      { path: 'custom.freeRecuts', label: 'Free re-cuts per message', kind: 'int' },
+      { path: 'custom.paidRecutMinor', label: 'Price of a further re-cut', kind: 'money' },
+      { path: 'custom.proofReminderDays', label: 'Days before a proof reminder', kind: 'int' },
+    ],
+  },
+  {
+    id: 'dispatch',
+    title: 'Dispatch',
+    lead: 'Shipping days, carriers and breakage claims.',
+    fields: [
+      { path: 'dispatch.shipOn.monday', label: 'Ship on Mondays', kind: 'bool' },
+      { path: 'dispatch.shipOn.tuesday', label: 'Ship on Tuesdays', kind: 'bool' },
+      { path: 'dispatch.shipOn.wednesday', label: 'Ship on Wednesdays', kind: 'bool' },
+      { path: 'dispatch.shipOn.thursday', label: 'Ship on Thursdays', kind: 'bool' },
+      { path: 'dispatch.shipOn.friday', label: 'Ship on Fridays', kind: 'bool' },
+      { path: 'dispatch.shipOn.saturday', label: 'Ship on Saturdays', kind: 'bool' },
+      { path: 'dispatch.shipOn.sunday', label: 'Ship on Sundays', kind: 'bool' },
+      { path: 'dispatch.heatRecheckDays', label: 'Days before a held parcel is checked again', kind: 'int' },
+      { path: 'dispatch.claimWindowDays', label: 'Days after delivery to report a breakage', kind: 'int' },
+    ],
+    rows: [
+      { path: 'dispatch.carriers', title: 'Carriers', item: 'carrier', columns: [{ path: 'id', label: 'Code', kind: 'text' }, { path: 'label', label: 'Name', kind: 'text' }], blank: () => ({ id: '', label: '' }) },
+    ],
+  },
+  {
     id: 'formats',
     title: 'Cylinder formats',
     lead: 'Recorded length of each format and the standard speed.',

@@ -390,6 +390,8 @@ export const tickets = pgTable('tickets', {
   wishes: text('wishes').notNull().default(''),
   cutAt: timestamp('cut_at', { withTimezone: true }),
   cutTestId: integer('cut_test_id').references(() => testCuts.id, { onDelete: 'set null' }),
+  // Re-cuts asked for by the customer (free ones first, then paid), counted for the shop's limit.
+  recuts: integer('recuts').notNull().default(0),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 }, table => [
@@ -409,4 +411,117 @@ export const ticketEvents = pgTable('ticket_events', {
   at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
 }, table => [
   index('ticket_events_ticket').on(table.ticketId, table.at),
+])
+
+// ---- Personal messages (custom): the customer's wishes for a message cut to order, and its proofs ----
+
+export const messageVoice = pgEnum('message_voice', ['maker', 'upload'])
+
+/** One personal message ordered: the wishes behind an order item of kind `custom` (one per item). */
+export const customMessages = pgTable('custom_messages', {
+  id: serial('id').primaryKey(),
+  orderItemId: integer('order_item_id').notNull().unique().references(() => orderItems.id, { onDelete: 'cascade' }),
+  occasion: text('occasion').notNull(),
+  recipientName: text('recipient_name').notNull(),
+  script: text('script').notNull().default(''),
+  voice: messageVoice('voice').notNull(),
+  // The customer's own recording for the maker to play into the horn (voice = upload).
+  voiceFileId: text('voice_file_id').references(() => files.id, { onDelete: 'set null' }),
+  voiceSeconds: doublePrecision('voice_seconds'),
+  rpm: integer('rpm').notNull(),
+  rush: boolean('rush').notNull().default(false),
+  wishedDate: date('wished_date', { mode: 'string' }).notNull(),
+  notes: text('notes').notNull().default(''),
+  // The quote the customer saw and paid: fit (words, seconds, verdict) and price parts in minor units.
+  quote: jsonb('quote').$type<Record<string, unknown>>().notNull(),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+})
+
+export const proofAnswer = pgEnum('proof_answer', ['waiting', 'approved', 'recut'])
+
+/** A transfer of a message's cut sent to the customer to hear; answered once (approve or ask for a re-cut). */
+export const proofs = pgTable('proofs', {
+  id: serial('id').primaryKey(),
+  ticketId: integer('ticket_id').notNull().references(() => tickets.id, { onDelete: 'cascade' }),
+  fileId: text('file_id').references(() => files.id, { onDelete: 'set null' }),
+  note: text('note').notNull().default(''),
+  answer: proofAnswer('answer').notNull().default('waiting'),
+  answerNote: text('answer_note').notNull().default(''),
+  // `customer`, or `maker` when the maker answered for the customer (with the reason in answer_note).
+  answeredVia: text('answered_via', { enum: ['customer', 'maker'] }),
+  answeredBy: integer('answered_by').references(() => users.id, { onDelete: 'set null' }),
+  answeredAt: timestamp('answered_at', { withTimezone: true }),
+  // A re-cut past the shop's free ones, paid for.
+  paidRecut: boolean('paid_recut').notNull().default(false),
+  reminderSentAt: timestamp('reminder_sent_at', { withTimezone: true }),
+  uploadedBy: integer('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('proofs_ticket').on(table.ticketId, table.createdAt),
+  // At most one proof waiting for an answer per ticket.
+  uniqueIndex('proofs_one_waiting').on(table.ticketId).where(sql`${table.answer} = 'waiting'`),
+])
+
+// ---- Dispatch: heat checks, packing and shipping, breakage claims ----
+
+export const heatVerdict = pgEnum('heat_verdict', ['ok', 'caution', 'hold'])
+
+/** Each heat check of an order before it ships; the newest one decides whether the order is held. */
+export const heatChecks = pgTable('heat_checks', {
+  id: serial('id').primaryKey(),
+  orderId: integer('order_id').notNull().references(() => orders.id, { onDelete: 'cascade' }),
+  forecastHigh: doublePrecision('forecast_high').notNull(),
+  unit: text('unit', { enum: ['C', 'F'] }).notNull(),
+  forecastHighC: doublePrecision('forecast_high_c').notNull(),
+  transitDays: integer('transit_days').notNull(),
+  verdict: heatVerdict('verdict').notNull(),
+  reasons: jsonb('reasons').$type<string[]>().notNull(),
+  nextShipDate: date('next_ship_date', { mode: 'string' }).notNull(),
+  checkedBy: integer('checked_by').references(() => users.id, { onDelete: 'set null' }),
+  checkedAt: timestamp('checked_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('heat_checks_order').on(table.orderId, table.checkedAt),
+])
+
+/** How an order was packed, shipped and delivered (one row per order, filled in as it goes). */
+export const shipments = pgTable('shipments', {
+  orderId: integer('order_id').primaryKey().references(() => orders.id, { onDelete: 'cascade' }),
+  // The engine's packing for the box chosen: tube, boxes, outside size, actual/dimensional/billable weight.
+  packing: jsonb('packing').$type<Record<string, unknown>>(),
+  weighedG: integer('weighed_g'),
+  checklist: jsonb('checklist').$type<string[]>().notNull().default([]),
+  packedBy: integer('packed_by').references(() => users.id, { onDelete: 'set null' }),
+  packedAt: timestamp('packed_at', { withTimezone: true }),
+  carrier: text('carrier'),
+  trackingNumber: text('tracking_number'),
+  shippedBy: integer('shipped_by').references(() => users.id, { onDelete: 'set null' }),
+  shippedAt: timestamp('shipped_at', { withTimezone: true }),
+  deliveredAt: timestamp('delivered_at', { withTimezone: true }),
+  // `shipper` or `customer`: who said it arrived.
+  deliveredVia: text('delivered_via', { enum: ['shipper', 'customer'] }),
+}, table => [
+  index('shipments_tracking').on(table.trackingNumber),
+])
+
+export const claimStatus = pgEnum('claim_status', ['open', 'replaced', 'refunded', 'declined'])
+
+/** A customer's report of a cylinder that arrived broken, with photos, and the maker's answer. */
+export const claims = pgTable('claims', {
+  id: serial('id').primaryKey(),
+  orderId: integer('order_id').notNull().references(() => orders.id, { onDelete: 'cascade' }),
+  userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+  description: text('description').notNull(),
+  // Order item ids reported broken (all items when the customer does not say).
+  itemIds: jsonb('item_ids').$type<number[]>().notNull().default([]),
+  photoFileIds: jsonb('photo_file_ids').$type<string[]>().notNull().default([]),
+  status: claimStatus('status').notNull().default('open'),
+  resolutionNote: text('resolution_note').notNull().default(''),
+  amountMinor: integer('amount_minor'),
+  refundId: integer('refund_id').references(() => refunds.id, { onDelete: 'set null' }),
+  resolvedBy: integer('resolved_by').references(() => users.id, { onDelete: 'set null' }),
+  resolvedAt: timestamp('resolved_at', { withTimezone: true }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  index('claims_order').on(table.orderId),
+  index('claims_status').on(table.status, table.createdAt),
 ])

@@ -205,6 +205,44 @@ const productionSettingsSchema = z.object({
   leadTimeDays: z.number({ error: 'leadTimeDays must be a number' }).int('leadTimeDays must be whole days').min(1, 'leadTimeDays must be at least 1').max(365, 'leadTimeDays is at most 365').default(10),
 })
 
+const wholeDays = (field: string, min: number, max: number) => z.number({ error: `${field} must be a number` }).int(`${field} must be whole days`).min(min, `${field} must be at least ${min}`).max(max, `${field} is at most ${max}`)
+
+const dispatchSettingsSchema = z.object({
+  /**
+   * Weekdays the shop hands parcels to the carrier. Early in the week keeps a parcel out of a depot over
+   * the weekend (common shipping practice, no source); a shop choice.
+   */
+  shipOn: z.object({
+    monday: z.boolean().default(true),
+    tuesday: z.boolean().default(true),
+    wednesday: z.boolean().default(true),
+    thursday: z.boolean().default(false),
+    friday: z.boolean().default(false),
+    saturday: z.boolean().default(false),
+    sunday: z.boolean().default(false),
+  }).prefault({}).refine(days => Object.values(days).some(Boolean), { message: 'ship on at least one weekday', path: ['monday'] }),
+  /** Days after a heat hold before the order is looked at again. A shop choice. */
+  heatRecheckDays: wholeDays('heatRecheckDays', 1, 30).default(2),
+  /** Carriers offered on the ship form (free text is allowed too). */
+  carriers: z.array(z.object({ id: code, label: name })).min(1).max(LIST_MAX, `at most ${LIST_MAX} entries`).refine(uniqueIds, 'carrier ids must be unique').default([
+    { id: 'post', label: 'Postal service' },
+    { id: 'courier', label: 'Parcel courier' },
+  ]),
+  /** Days after delivery during which a breakage may be reported. A shop choice. */
+  claimWindowDays: wholeDays('claimWindowDays', 1, 365).default(14),
+})
+
+const customSettingsSchema = z.object({
+  /** Re-cuts of a personal message a customer may ask for at no charge. A shop choice. */
+  freeRecuts: z.number({ error: 'freeRecuts must be a number' }).int('freeRecuts must be a whole number').min(0, 'freeRecuts cannot be negative').max(10, 'freeRecuts is at most 10').default(1),
+  /** Price of a re-cut after the free ones. */
+  paidRecutMinor: minorUnits('custom.paidRecutMinor').default(2500),
+  /** Days a proof may wait for an answer before the one reminder mail. */
+  proofReminderDays: wholeDays('proofReminderDays', 1, 60).default(5),
+  /** Days from payment to the due date of a rushed message (the usual lead time is under Production). */
+  rushLeadTimeDays: wholeDays('rushLeadTimeDays', 1, 365).default(4),
+})
+
 export const engineSettingsSchema = z.object({
   formats: z.object({
     two_minute: formatSettingsSchema(cylinderFormatTable.two_minute.defaultRecordableLengthIn).prefault({}),
@@ -219,6 +257,8 @@ export const engineSettingsSchema = z.object({
   packing: packingSettingsSchema.prefault({}),
   prices: priceSettingsSchema.prefault({}),
   production: productionSettingsSchema.prefault({}),
+  dispatch: dispatchSettingsSchema.prefault({}),
+  custom: customSettingsSchema.prefault({}),
 })
 
 export type EngineSettings = z.output<typeof engineSettingsSchema>
