@@ -26,35 +26,8 @@ export default defineEventHandler(async (event) => {
   const forEveryone = file.isPublic && await shownInShop(db, id)
   if (!forEveryone && (await currentUser(event))?.role !== 'maker') throw notFound()
 
-  const data = await readStoredFile(id)
-  if (!data) throw notFound()
-  setResponseHeaders(event, {
-    'Content-Type': file.mime,
-    'Content-Disposition': inlineDisposition(file.originalName),
-    'X-Content-Type-Options': 'nosniff',
-    'Content-Security-Policy': 'default-src \'none\'; img-src \'self\'; media-src \'self\'; style-src \'unsafe-inline\'; sandbox',
-    // Bytes under an id never change, but a product can be hidden at any time: a cache may keep a file
-    // and must ask again before each use (a 304 while it may still have it), so a hidden product's
-    // photos and sample stop at once. A file only the maker sees stays out of shared caches.
-    'Cache-Control': forEveryone ? 'public, no-cache' : 'private, no-cache',
-    'ETag': `"${file.id}"`,
-    'Accept-Ranges': 'bytes',
-  })
-  if (getRequestHeader(event, 'if-none-match') === `"${file.id}"`) {
-    setResponseStatus(event, 304)
-    return null
-  }
-  const range = parseByteRange(getRequestHeader(event, 'range'), data.byteLength)
-  if (range === 'unsatisfiable') {
-    setResponseHeader(event, 'Content-Range', `bytes */${data.byteLength}`)
-    throw createError({ statusCode: 416, statusMessage: 'Range Not Satisfiable', message: 'That part of the file does not exist.' })
-  }
-  if (range) {
-    setResponseStatus(event, 206)
-    setResponseHeader(event, 'Content-Range', `bytes ${range.start}-${range.end}/${data.byteLength}`)
-    setResponseHeader(event, 'Content-Length', range.end - range.start + 1)
-    return data.subarray(range.start, range.end + 1)
-  }
-  setResponseHeader(event, 'Content-Length', data.byteLength)
-  return data
+  // Bytes under an id never change, but a product can be hidden at any time: a cache may keep a file
+  // and must ask again before each use (a 304 while it may still have it), so a hidden product's
+  // photos and sample stop at once. A file only the maker sees stays out of shared caches.
+  return sendStoredFile(event, file, { shared: forEveryone })
 })
