@@ -31,13 +31,13 @@ export function useCartCheckout() {
   function fetchQuote() {
     return $fetch('/api/cart/quote', {
       method: 'POST',
-      body: { items: cart.lines.map(line => ({ slug: line.slug, qty: line.qty, seenUnitPriceMinor: line.seenUnitPriceMinor })), zone: zone.value, taxRegion: taxRegion.value },
+      body: { items: cart.lines.map(line => ({ slug: line.slug, qty: line.qty, seenUnitPriceMinor: line.seenUnitPriceMinor })), ...customMessagesBody(cart.messages), zone: zone.value, taxRegion: taxRegion.value },
     })
   }
 
   async function refreshQuote() {
     quoteError.value = ''
-    if (cart.lines.length === 0) {
+    if (cart.empty) {
       quote.value = null
       return
     }
@@ -53,7 +53,7 @@ export function useCartCheckout() {
   }
 
   onMounted(refreshQuote)
-  watch(() => cart.lines.map(line => `${line.slug}:${line.qty}`).join(), refreshQuote)
+  watch(() => [...cart.lines.map(line => `${line.slug}:${line.qty}`), ...cart.messages.map(message => message.key)].join(), refreshQuote)
   watch([zone, taxRegion], refreshQuote)
 
   function acceptChanges() {
@@ -83,6 +83,7 @@ export function useCartCheckout() {
       const { line1, line2, city, region, postalCode, country, name } = form
       const body = {
         items: cart.lines.map(line => ({ slug: line.slug, qty: line.qty, seenUnitPriceMinor: line.seenUnitPriceMinor })),
+        ...customMessagesBody(cart.messages),
         email: form.email,
         shippingAddress: { name, line1, line2: line2 || undefined, city, region: region || undefined, postalCode, country },
         zone: zone.value,
