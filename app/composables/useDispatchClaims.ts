@@ -5,9 +5,9 @@ export interface WorkshopClaim {
   description: string
   createdAt: string
   orderNumber: string
-  customer?: string | null
-  email?: string | null
-  items?: { id: number, title: string }[]
+  orderStatus?: string
+  customerEmail?: string | null
+  items?: { id: number, title: string, format?: string, quantity?: number }[]
   photoUrls: string[]
   resolutionNote?: string | null
   amountMinor?: number | null
