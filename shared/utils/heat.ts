@@ -156,24 +156,52 @@ function utcMidnight(from: Date | string): number {
   return Date.UTC(from.getUTCFullYear(), from.getUTCMonth(), from.getUTCDate())
 }
 
+/** Weekday names as the shop's settings spell them, by JavaScript's day number (0 = Sunday). */
+export const shippingWeekdayNames = ['sunday', 'monday', 'tuesday', 'wednesday', 'thursday', 'friday', 'saturday'] as const
+export type ShippingWeekdayName = typeof shippingWeekdayNames[number]
+
+/** The day numbers (0 = Sunday … 6 = Saturday) of the weekdays a `{ monday: true, … }` record allows. */
+export function shippingWeekdays(shipOn: Partial<Record<ShippingWeekdayName, boolean>>): number[] {
+  return shippingWeekdayNames.flatMap((name, day) => (shipOn[name] ? [day] : []))
+}
+
 /**
- * The first Monday or Tuesday on or after `from` (so a Monday gives itself), as `YYYY-MM-DD`.
- * Shipping early in the week keeps a parcel from sitting in a depot or van over a weekend; with
- * `daysInTransit` a Tuesday is skipped when the parcel would not arrive by Friday. Calendar days are
- * read in UTC: pass the shop's local date as a `YYYY-MM-DD` string to avoid a time-zone shift.
+ * The first day on or after `from` that is one of `allowedWeekdays` (0 = Sunday … 6 = Saturday) and
+ * from which a parcel `daysInTransit` days on the road still arrives by Friday, as `YYYY-MM-DD`.
+ * Shipping early in the week keeps a parcel from sitting in a depot or van over a weekend (common
+ * shipping practice, no source). When no allowed day within two weeks arrives by Friday (a long
+ * transit, or a shop that ships only at the weekend), the first of the allowed day earliest in the week
+ * (Monday first, Sunday last) loses least. Calendar days are read in UTC: pass the shop's local date as
+ * a `YYYY-MM-DD` string to avoid a time-zone shift.
  */
-export function nextEarlyWeekShippingDay(from: Date | string, options: { daysInTransit?: number } = {}): string {
+export function nextShippingDay(from: Date | string, allowedWeekdays: readonly number[], options: { daysInTransit?: number } = {}): string {
+  const allowed = new Set(allowedWeekdays.filter(day => Number.isInteger(day) && day >= 0 && day <= 6))
+  if (allowed.size === 0) throw new RangeError('ship on at least one weekday')
   const start = utcMidnight(from)
-  const transit = Math.ceil(options.daysInTransit ?? 0)
-  let firstMonday: number | undefined
+  const transit = Math.max(0, Math.ceil(options.daysInTransit ?? 0))
+  let fallback: { day: number, rank: number } | undefined
   for (let offset = 0; offset < 14; offset++) {
     const day = start + offset * DAY_MS
     const weekday = new Date(day).getUTCDay()
-    if (weekday === MONDAY && firstMonday === undefined) firstMonday = day
-    if ((weekday === MONDAY || weekday === TUESDAY) && weekday + transit <= FRIDAY) {
-      return new Date(day).toISOString().slice(0, 10)
-    }
+    if (!allowed.has(weekday)) continue
+    // Monday 1 … Friday 5, Saturday 6, Sunday 7: the place of the day in a working week.
+    const rank = weekday === 0 ? 7 : weekday
+    if (rank + transit <= FRIDAY) return new Date(day).toISOString().slice(0, 10)
+    if (!fallback || rank < fallback.rank) fallback = { day, rank }
   }
-  // A transit longer than a working week crosses a weekend whatever the day; Monday loses least.
-  return new Date(firstMonday ?? start).toISOString().slice(0, 10)
+  return new Date(fallback!.day).toISOString().slice(0, 10)
+}
+
+/** A calendar date `days` after `from` (a `YYYY-MM-DD` string or a Date read in UTC), as `YYYY-MM-DD`. */
+export function addCalendarDays(from: Date | string, days: number): string {
+  return new Date(utcMidnight(from) + Math.round(days) * DAY_MS).toISOString().slice(0, 10)
+}
+
+/**
+ * The first Monday or Tuesday on or after `from` (so a Monday gives itself), as `YYYY-MM-DD`, with
+ * `daysInTransit` a Tuesday is skipped when the parcel would not arrive by Friday; past a working week
+ * of transit, the first Monday. `nextShippingDay` with Monday and Tuesday allowed.
+ */
+export function nextEarlyWeekShippingDay(from: Date | string, options: { daysInTransit?: number } = {}): string {
+  return nextShippingDay(from, [MONDAY, TUESDAY], options)
 }

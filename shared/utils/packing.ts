@@ -80,6 +80,8 @@ export interface PackingRequest {
   cylinders: number
   /** Wax cylinders are fragile; false only for something that is not. */
   fragile?: boolean | undefined
+  /** The outer box the packer wants to use (a box id of the settings); the smallest that fits when absent. */
+  outerBoxId?: string | undefined
 }
 
 export interface PackageChoice {
@@ -137,6 +139,11 @@ export function choosePackage(request: PackingRequest, settings: EngineSettings 
   const doubleBox = (request.fragile ?? true) && packing.doubleBoxFragile
   const boxes = [...packing.boxes].sort((a, b) => volumeOf(outsideOf(a)) - volumeOf(outsideOf(b)))
   const grids = tubeGrids(cylinders, tube)
+  const wantedOuter = request.outerBoxId === undefined ? undefined : boxes.find(box => box.id === request.outerBoxId)
+  if (request.outerBoxId !== undefined && !wantedOuter) {
+    return { ok: false, cylinders, reason: `No box "${request.outerBoxId}" in the settings: choose one of ${boxes.map(box => box.id).join(', ')}.` }
+  }
+  const outerChoices = wantedOuter ? [wantedOuter] : boxes
 
   // What goes inside the outer box: the bare tube grid, or each inner box the grid fits.
   const contents: { grid: TubeGrid, innerBox?: PackingBox, contentIn: PackingExtent }[] = []
@@ -151,7 +158,7 @@ export function choosePackage(request: PackingRequest, settings: EngineSettings 
 
   let best: { grid: TubeGrid, innerBox?: PackingBox, outerBox: PackingBox, contentIn: PackingExtent, rank: [number, number] } | undefined
   for (const content of contents) {
-    const outerBox = boxes.find(box => box !== content.innerBox && fitsIn(grow(content.contentIn, cushionIn), insideOf(box)))
+    const outerBox = outerChoices.find(box => box !== content.innerBox && fitsIn(grow(content.contentIn, cushionIn), insideOf(box)))
     if (!outerBox) continue
     const rank: [number, number] = [volumeOf(outsideOf(outerBox)), volumeOf(content.contentIn)]
     if (!best || rank[0] < best.rank[0] - SLACK || (rank[0] <= best.rank[0] + SLACK && rank[1] < best.rank[1] - SLACK)) {
@@ -163,6 +170,10 @@ export function choosePackage(request: PackingRequest, settings: EngineSettings 
     const largest = boxes.at(-1)
     const largestText = largest ? `the largest box is ${describe(insideOf(largest))} in inside` : 'there are no boxes'
     const smallestContent = contents.map(content => content.contentIn).sort((a, b) => volumeOf(a) - volumeOf(b))[0]
+    if (wantedOuter) {
+      const need = smallestContent ? `they need at least ${describe(grow(smallestContent, cushionIn))} in inside` : 'no other box holds them as an inner box'
+      return { ok: false, cylinders, reason: `Box ${wantedOuter.label} (${wantedOuter.id}, ${describe(insideOf(wantedOuter))} in inside) does not take ${cylinders} tube(s)${doubleBox ? ' double-boxed' : ''} with ${cushionIn} in of cushioning on every side: ${need}.` }
+    }
     if (!smallestContent) {
       return { ok: false, cylinders, reason: `No box fits: no box in the settings holds ${cylinders} tube(s) as an inner box; ${largestText}.` }
     }

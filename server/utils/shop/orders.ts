@@ -243,5 +243,9 @@ export async function orderView(db: Database | Transaction, order: Order) {
     reservationExpiresAt: order.reservationExpiresAt,
     items: items.map(item => ({ id: item.id, title: item.title, kind: item.kind, format: item.format, quantity: item.quantity, unitPriceMinor: item.unitPriceMinor, lineTotalMinor: item.lineTotalMinor, madeToOrder: item.madeToOrder })),
     timeline,
+    // Personal messages with their proofs (empty for an order of cylinders only).
+    messages: await orderMessages(db, order),
+    // Dispatch: the shipment, breakage claims, and whether the customer may report one or say it arrived.
+    ...(await orderDispatchView(db, order)),
   }
 }

@@ -49,12 +49,16 @@ export async function createTicketsForOrder(tx: Db, orderId: number): Promise<nu
   const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
   const toMake = items.filter(item => item.madeToOrder || item.kind === 'custom')
   if (toMake.length === 0) return 0
-  const dueDate = ticketDueDate(order.paidAt, (await getSetting('engine', tx)).production.leadTimeDays)
+  const settings = await getSetting('engine', tx)
+  const dueDate = ticketDueDate(order.paidAt, settings.production.leadTimeDays)
+  // A personal message is due on its wished-for date, or after its lead time if that is later.
+  const messageDue = await messageDueDates(tx, toMake.filter(item => item.kind === 'custom').map(item => item.id), order.paidAt, settings)
   const rows = toMake.flatMap(item => Array.from({ length: item.quantity }, (_, index) => ({
-    orderId, orderItemId: item.id, unit: index + 1, format: item.format, dueDate, wishes: ticketWishesFromDetails(item.details),
+    orderId, orderItemId: item.id, unit: index + 1, format: item.format, dueDate: messageDue.get(item.id) ?? dueDate, wishes: ticketWishesFromDetails(item.details),
   })))
   const created = await tx.insert(tickets).values(rows).onConflictDoNothing({ target: [tickets.orderItemId, tickets.unit] }).returning({ id: tickets.id })
   for (const ticket of created) await logTicketEvent(tx, ticket.id, null, 'queued', `Opened for paid order ${order.number}.`, null)
+  if (messageDue.size > 0) await queueMessagesReceivedMail(tx, orderId)
   await moveOrder(tx, orderId, ['paid'], 'in_production', {}, `${rows.length} cylinder(s) to cut: production ticket(s) opened.`)
   return created.length
 }
@@ -238,8 +242,12 @@ export async function changeTicketStage(db: Database, ticketId: number, change: 
     if (problem) throw conflictError(problem)
     const recut = change.to === 'recut' || change.to === 'blank_assigned'
     if (recut && !change.note) throw fieldError('note', 'say why the cylinder is cut again')
+    if (kind === 'custom' && change.to === 'proof_sent') throw conflictError(`Ticket #${ticket.id} is a personal message: send the proof by uploading its recording (the proof form), so the customer can hear it.`)
+    if (kind === 'custom' && change.to === 'approved' && !change.note) throw fieldError('note', 'say how the customer approved the proof (for example "approved by telephone")')
     const to: TicketStageValue = change.to === 'recut' ? 'blank_assigned' : change.to
     await tx.update(tickets).set({ stage: to, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
+    // A proof still waiting is answered by this move, on the customer's behalf, with the maker's note.
+    if (ticket.stage === 'proof_sent') await answerWaitingProofForCustomer(tx, ticket.id, to === 'approved' ? 'approved' : 'recut', change.note, actorUserId)
     if (to === 'done' && ticket.blankId) {
       await moveBlank(tx, ticket.blankId, { from: 'cut', to: 'shipped', reason: `Shipped with order ${order.number}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
     }
@@ -249,15 +257,37 @@ export async function changeTicketStage(db: Database, ticketId: number, change: 
   })
 }
 
+/**
+ * Proof moves of a personal message, each conditional on the stage it leaves (the caller has locked the
+ * ticket with `lockTicketForMove`): the proof goes out (cut → proof_sent), the customer approves it
+ * (proof_sent → approved), or asks for a re-cut (proof_sent → blank_assigned, counted in `recuts`).
+ * Each returns false when the ticket was not at the stage the move leaves.
+ */
+export async function moveTicketForProof(tx: Db, ticket: Ticket, move: 'sent' | 'approved' | 'recut', note: string, actorUserId: number | null): Promise<boolean> {
+  const from: TicketStageValue = move === 'sent' ? 'cut' : 'proof_sent'
+  const to: TicketStageValue = move === 'sent' ? 'proof_sent' : move === 'approved' ? 'approved' : 'blank_assigned'
+  const [moved] = await tx.update(tickets)
+    .set({ stage: to, updatedAt: new Date(), ...(move === 'recut' ? { recuts: sql`${tickets.recuts} + 1` } : {}) })
+    .where(and(eq(tickets.id, ticket.id), eq(tickets.stage, from))).returning({ id: tickets.id })
+  if (!moved) return false
+  await logTicketEvent(tx, ticket.id, from, to, move === 'recut' ? `Recut: ${note}` : note, actorUserId)
+  await syncOrderWithTickets(tx, ticket.orderId, actorUserId)
+  return true
+}
+
 /** Closes the to-dispatch tickets of a shipped order (for dispatch to call when the parcel leaves). */
 export async function closeTicketsOfShippedOrder(tx: Db, orderId: number, actorUserId: number | null) {
   const open = await tx.select().from(tickets).where(and(eq(tickets.orderId, orderId), eq(tickets.stage, 'to_dispatch')))
+  let closed = 0
   for (const ticket of open) {
-    await tx.update(tickets).set({ stage: 'done', updatedAt: new Date() }).where(and(eq(tickets.id, ticket.id), eq(tickets.stage, 'to_dispatch')))
+    // Conditional: a ticket another request closed meanwhile is neither closed nor logged twice.
+    const [done] = await tx.update(tickets).set({ stage: 'done', updatedAt: new Date() }).where(and(eq(tickets.id, ticket.id), eq(tickets.stage, 'to_dispatch'))).returning({ id: tickets.id })
+    if (!done) continue
+    closed++
     if (ticket.blankId) await moveBlank(tx, ticket.blankId, { from: 'cut', to: 'shipped', reason: 'Shipped with its order.', byUserId: actorUserId, details: { ticketId: ticket.id } })
     await logTicketEvent(tx, ticket.id, 'to_dispatch', 'done', 'The order has shipped.', actorUserId)
   }
-  return open.length
+  return closed
 }
 
 /**
@@ -331,4 +361,25 @@ export async function ticketCertificate(db: Db, ticketId: number) {
       thresholds: await testCutThresholds(db),
     },
   }
+}
+
+/**
+ * A cylinder that arrived broken is made again: one new ticket per broken order item, on the same item
+ * with the next unit number, queued and due after the shop's lead time; the order goes back into
+ * production (from delivered or shipped), so the replacement passes through dispatch like any cut.
+ */
+export async function openReplacementTickets(tx: Db, orderId: number, orderItemIds: number[], note: string, actorUserId: number) {
+  const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
+  const broken = items.filter(item => orderItemIds.includes(item.id))
+  const dueDate = ticketDueDate(new Date(), (await getSetting('engine', tx)).production.leadTimeDays)
+  const opened: { id: number, orderItemId: number, unit: number }[] = []
+  for (const item of broken) {
+    const [last] = await tx.select({ unit: sql<number>`coalesce(max(${tickets.unit}), 0)::int` }).from(tickets).where(eq(tickets.orderItemId, item.id))
+    const unit = Math.max(Number(last?.unit ?? 0), item.quantity) + 1
+    const [ticket] = await tx.insert(tickets).values({ orderId, orderItemId: item.id, unit, format: item.format, dueDate, wishes: ticketWishesFromDetails(item.details) }).returning({ id: tickets.id })
+    await logTicketEvent(tx, ticket!.id, null, 'queued', note, actorUserId)
+    opened.push({ id: ticket!.id, orderItemId: item.id, unit })
+  }
+  if (opened.length) await moveOrder(tx, orderId, ['delivered', 'shipped'], 'in_production', {}, note, actorUserId)
+  return opened
 }
