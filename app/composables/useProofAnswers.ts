@@ -22,7 +22,7 @@ export interface ProofView {
   answer: 'waiting' | 'approved' | 'recut'
   answerNote: string | null
   answeredAt: string | null
-  audioUrl: string
+  audioUrl: string | null
 }
 
 /**
