@@ -24,6 +24,8 @@ export interface FieldSpec {
   rows?: number
   /** Spans the whole row of a grid. */
   wide?: boolean
+  placeholder?: string
+  disabled?: boolean
 }
 
 const inputModes: Partial<Record<FieldKind, 'text' | 'decimal' | 'numeric' | 'email'>> = {
