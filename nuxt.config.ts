@@ -1,9 +1,11 @@
 import { fileURLToPath } from 'node:url'
 
 const migrationsDir = fileURLToPath(new URL('./drizzle', import.meta.url))
+// The guides' Markdown, bundled into the server as assets (server/utils/guides/guides.ts).
+const guidesDir = fileURLToPath(new URL('./content/guides', import.meta.url))
 
 export default defineNuxtConfig({
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint', 'nuxt-security'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint', 'nuxt-security', '@nuxtjs/mdc'],
   devtools: { enabled: false },
   app: {
     head: {
@@ -22,9 +24,18 @@ export default defineNuxtConfig({
     },
   },
   css: ['@fontsource/fraunces/600.css', '@fontsource/fraunces/700.css', '@fontsource/ibm-plex-sans/400.css', '@fontsource/ibm-plex-sans/500.css', '@fontsource/ibm-plex-sans/600.css'],
+  // Guides are Markdown rendered on the server (/guides): no code highlighting (no inline styles for the CSP), plain headings.
+  mdc: {
+    highlight: false,
+    headings: { anchorLinks: false },
+  },
   runtimeConfig: {
     // Every key can be set at run time with NUXT_<KEY> (e.g. NUXT_DB_DIR, NUXT_SMTP_PORT).
     dbDir: '.data/db',
+    // Small files the server keeps (the backup key); `npm start` keeps the session password here too.
+    dataDir: '.data',
+    // Where POST /api/backup (npm run backup) writes its archives.
+    backupDir: 'backups',
     // The sign-in cookie lives 30 days from its last renewal; server/utils/account/auth.ts renews it, with the
     // session's row, at most once a day of use. The row decides: after sign-out the cookie is dead.
     session: { cookie: { maxAge: 60 * 60 * 24 * 30 } },
@@ -132,6 +143,8 @@ export default defineNuxtConfig({
   ...(process.env.GW_BUILD_DIR ? { buildDir: process.env.GW_BUILD_DIR } : {}),
   nitro: {
     ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
+    // The guides (content/guides/*.md) and the slip's fonts (server/assets/fonts) travel inside the built server.
+    serverAssets: [{ baseName: 'guides', dir: guidesDir }],
     storage: {
       // Re-mounted at run time at `uploadsDir` (NUXT_UPLOADS_DIR) by server/utils/platform/uploads.ts, unless
       // NUXT_UPLOADS_DRIVER=build: then this mount is used as it is (put a shared driver here).

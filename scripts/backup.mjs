@@ -4,12 +4,13 @@ import { readFileSync } from 'node:fs'
 
 const port = Number(process.env.PORT ?? 3000)
 const base = `http://127.0.0.1:${port}`
+const tokenFile = `${process.env.NUXT_DATA_DIR ?? '.data'}/backup-token`
 let token
 try {
-  token = readFileSync('.data/backup-token', 'utf8').trim()
+  token = readFileSync(tokenFile, 'utf8').trim()
 }
 catch {
-  console.error('No .data/backup-token: start the shop once (npm start) in this folder first.')
+  console.error(`No ${tokenFile}: start the shop once (npm start) in this folder first, or set NUXT_DATA_DIR as the server has it.`)
   process.exit(1)
 }
 const response = await fetch(`${base}/api/backup`, { method: 'POST', headers: { 'x-backup-token': token, 'origin': base } }).catch(() => null)

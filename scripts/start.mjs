@@ -29,10 +29,11 @@ if (Math.max(...sources.map(newestMtime)) > built) {
   if (result.status !== 0) process.exit(result.status ?? 1)
 }
 
-mkdirSync('.data', { recursive: true })
+const dataDir = process.env.NUXT_DATA_DIR ?? '.data'
+mkdirSync(dataDir, { recursive: true })
 let sessionPassword = process.env.NUXT_SESSION_PASSWORD
 if (!sessionPassword) {
-  const file = '.data/session-password'
+  const file = join(dataDir, 'session-password')
   if (!existsSync(file)) writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 })
   sessionPassword = readFileSync(file, 'utf8').trim()
 }
@@ -77,7 +78,6 @@ run('server', [`${outputDir}/server/index.mjs`], {
   HOST: process.env.HOST ?? '127.0.0.1',
   NUXT_SESSION_PASSWORD: sessionPassword,
   NUXT_SITE_URL: siteUrl,
-  NUXT_PUBLIC_SITE_URL: siteUrl,
   NUXT_SMTP_PORT: String(mailSmtpPort),
   NUXT_STRIPE_API_PORT: String(stripePort),
   NUXT_SEED_DEMO: seedDemo,

@@ -67,7 +67,7 @@ describe.skipIf(!embedded)('crash safety of the embedded database', () => {
         HOST: '127.0.0.1',
         NUXT_DB_DIR: dbDir,
         NUXT_UPLOADS_DIR: uploadsDir,
-        BACKUP_DIR: join(dataDir, 'backups'),
+        NUXT_BACKUP_DIR: join(dataDir, 'backups'),
         NUXT_SESSION_PASSWORD: 'crash-test-session-password-0123456789abcdef',
         NUXT_SMTP_PORT: String(mail.smtpPort),
         NUXT_STRIPE_API_PORT: String(payments.port),

@@ -8,7 +8,7 @@ import type { Answer } from './harness'
 // The shop's own address is http://localhost:<port>, while the tests reach it at 127.0.0.1: the other loopback name.
 const port = await freePort()
 const siteUrl = `http://localhost:${port}`
-await useTestServer({ NUXT_SITE_URL: siteUrl, NUXT_PUBLIC_SITE_URL: siteUrl }, { port })
+await useTestServer({ NUXT_SITE_URL: siteUrl }, { port })
 
 /*
  * Inputs that once took the whole server down (an engine loop run ~1e308 times, heap exhausted) or
@@ -160,7 +160,24 @@ describe('one address for the shop', () => {
   })
 })
 
+describe('one setting for the shop\'s address', () => {
+  it('pages take the public address from NUXT_SITE_URL alone (no NUXT_PUBLIC_SITE_URL is set)', async () => {
+    const html = await bodyFor('/cylinders', { accept: 'text/html', host: `localhost:${port}` })
+    // The default is http://localhost:3000; this server's address has another port.
+    expect(html).toContain(`siteUrl:"${siteUrl}"`)
+  })
+})
+
 /** fetch() will not send a Host of our choosing; node:http will. */
+function bodyFor(path: string, headers: Record<string, string>): Promise<string> {
+  return new Promise((resolve, reject) => {
+    httpGet(url(path), { headers }, (response) => {
+      let text = ''
+      response.setEncoding('utf8').on('data', (chunk: string) => (text += chunk)).on('end', () => resolve(text))
+    }).on('error', reject)
+  })
+}
+
 function statusFor(path: string, headers: Record<string, string>): Promise<number> {
   return new Promise((resolve, reject) => {
     httpGet(url(path), { headers }, (response) => {

@@ -40,9 +40,10 @@ export function backupName(): string {
 
 /** The key `npm run backup` shows the server: kept in the data folder, readable only by whoever runs the shop. */
 export function backupToken(): string {
-  const file = resolve('.data/backup-token')
+  const dir = resolve(String(useRuntimeConfig().dataDir))
+  const file = resolve(dir, 'backup-token')
   if (!existsSync(file)) {
-    mkdirSync(resolve('.data'), { recursive: true })
+    mkdirSync(dir, { recursive: true })
     writeFileSync(file, randomBytes(24).toString('hex'), { mode: 0o600 })
   }
   return readFileSync(file, 'utf8').trim()
