@@ -5,10 +5,11 @@
 // register's seed; idempotent.
 import { eq, inArray } from 'drizzle-orm'
 import { analyseSurfaceWav, makeSurfaceWav } from '../audio'
-import { blanks, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
+import { blanks, customMessages, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import { hashPassword } from '#imports'
 import { demoAccounts } from '#shared/utils/demoAccounts'
+import { addDaysToDate, quoteCustomMessage, shopToday } from '#shared/utils/messageQuote'
 import type { Database, Transaction } from '../utils/platform/db'
 import { uploadStorage } from '../utils/platform/uploads'
 import { moveBlank } from '../utils/workshop/blanks'
@@ -147,7 +148,9 @@ async function seedDemoRecorders(db: Database, now: number) {
   return made
 }
 
-interface DemoLine { slug?: string, custom?: { format: 'two_minute' | 'four_minute', details: Record<string, unknown> }, qty: number }
+/** A personal message ordered through the shop: its wishes are kept as a message row (wished for `wishedInDays` from now). */
+interface DemoMessage { occasion: string, recipientName: string, script: string, wishedInDays: number, notes: string }
+interface DemoLine { slug?: string, custom?: { format: 'two_minute' | 'four_minute', details: Record<string, unknown>, message?: DemoMessage }, qty: number }
 interface DemoOrder {
   collector: number
   status: OrderStatusValue
@@ -176,6 +179,21 @@ const demoOrders: DemoOrder[] = [
   {
     collector: 2, status: 'in_production', placedDaysAgo: 4, stages: ['blank_assigned'],
     lines: [customMessage('two_minute', { occasion: 'Shop opening', dedication: 'For the new tobacconist on Ferrow Quay', script: 'Welcome to the quay — may the smoke always rise straight.' })],
+  },
+  {
+    // A message waiting for its proof: the cue sheet and the proof upload can be tried on its ticket.
+    collector: 3, status: 'in_production', placedDaysAgo: 3, stages: ['cut'],
+    lines: [{
+      qty: 1,
+      custom: {
+        format: 'two_minute',
+        details: {},
+        message: {
+          occasion: 'Retirement', recipientName: 'Aunt Clemency Wardle', wishedInDays: 16, notes: 'She taught at the Lowmere school for forty years; say "Miss Wardle" the way her pupils did.',
+          script: 'Dear Miss Wardle, forty years of chalk dust, spelling tests and patience! From every pupil who ever sat in the front row at Lowmere: thank you, and enjoy your garden at last.',
+        },
+      },
+    }],
   },
   { collector: 2, status: 'ready_to_pack', placedDaysAgo: 14, lines: [{ slug: 'ballad-of-the-shaving-knife', qty: 1 }], stages: ['to_dispatch'] },
   { collector: 3, status: 'packed', placedDaysAgo: 16, lines: [{ slug: 'copperkettle-polka', qty: 1 }, { slug: 'slow-air-for-a-warm-workshop', qty: 1 }], stages: ['to_dispatch'] },
@@ -288,6 +306,12 @@ interface OrderContext {
 async function seedDemoOrder(tx: Transaction, context: OrderContext): Promise<number> {
   const { demo, owner, engine, now, makerId } = context
   const lines = demo.lines.map((line) => {
+    if (line.custom?.message) {
+      const { message } = line.custom
+      const quote = quoteCustomMessage({ script: message.script, format: line.custom.format, voice: 'maker', rush: false }, shopToday(new Date(now - demo.placedDaysAgo * DAY)), engine)
+      const details = { occasion: message.occasion, recipient: message.recipientName, wishedDate: addDaysToDate(shopToday(new Date(now)), message.wishedInDays), script: message.script, note: message.notes }
+      return { productId: null, kind: 'custom' as const, title: `Personal message — ${message.occasion} for ${message.recipientName}`, format: line.custom.format, quantity: 1, unitPriceMinor: quote.price.totalMinor, madeToOrder: true, details, message: { ...message, quote, wishedDate: details.wishedDate } }
+    }
     if (line.custom) {
       const price = engine.prices.customMessage.baseMinor + (line.custom.format === 'four_minute' ? engine.prices.customMessage.fourMinuteSurchargeMinor : 0)
       return { productId: null, kind: 'custom' as const, title: `Personal message: ${String(line.custom.details.occasion ?? 'message')}`, format: line.custom.format, quantity: 1, unitPriceMinor: price, madeToOrder: true, details: line.custom.details }
@@ -340,6 +364,15 @@ async function seedDemoOrder(tx: Transaction, context: OrderContext): Promise<nu
     orderId: order!.id, productId: line.productId, kind: line.kind, title: line.title, format: line.format, quantity: line.quantity,
     unitPriceMinor: line.unitPriceMinor, lineTotalMinor: line.unitPriceMinor * line.quantity, taxMinor: 0, madeToOrder: line.madeToOrder, details: line.details,
   }))).returning()
+  for (const [index, line] of lines.entries()) {
+    if (!('message' in line) || !line.message) continue
+    const { message } = line
+    await tx.insert(customMessages).values({
+      orderItemId: items[index]!.id, occasion: message.occasion, recipientName: message.recipientName, script: message.script, voice: 'maker',
+      rpm: engine.standardRpm, rush: false, wishedDate: message.wishedDate, notes: message.notes,
+      quote: { fit: message.quote.fit, spokenSeconds: message.quote.spokenSeconds, price: message.quote.price, earliestDate: message.quote.earliestDate },
+    }).onConflictDoNothing()
+  }
   await tx.insert(orderEvents).values(finalPath.map((state, index) => ({
     orderId: order!.id, fromStatus: index === 0 ? null : finalPath[index - 1]!, toStatus: state, at: stepAt(index),
     note: state === 'cancelled' ? 'The payment page expired unpaid.' : state === 'refunded' ? 'Refunded in full.' : null,

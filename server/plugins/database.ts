@@ -22,9 +22,15 @@ export default defineNitroPlugin((nitroApp) => {
   }
 
   let sweepTimer: ReturnType<typeof setInterval> | undefined
-  const sweep = () => sweepExpiredReservations().catch((error) => {
-    console.error('[checkout] reservation sweep failed:', error instanceof Error ? error.message : error)
-  })
+  const sweep = () => Promise.all([
+    sweepExpiredReservations().catch((error) => {
+      console.error('[checkout] reservation sweep failed:', error instanceof Error ? error.message : error)
+    }),
+    // One reminder for each proof left waiting too long (conditional, so two servers send it once).
+    sendProofReminders().catch((error) => {
+      console.error('[messages] proof reminder sweep failed:', error instanceof Error ? error.message : error)
+    }),
+  ])
 
   const starting = (async () => {
     const db = await useDB()

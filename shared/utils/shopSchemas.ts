@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { customMessagesField } from './customSchemas'
 
 export const cartItemSchema = z.object({
   slug: z.string({ error: 'slug is required' }).trim().min(1, 'slug is required').max(120, 'slug is too long'),
@@ -32,7 +33,9 @@ export const shippingAddressSchema = z.object({
 })
 
 export const checkoutSchema = z.object({
-  items: cartItemsField,
+  // Cylinders from the cart, personal messages to order, or both.
+  items: cartItemsField.optional(),
+  customMessages: customMessagesField.optional(),
   email: z.string({ error: 'email is required' }).trim().max(254, 'email is too long').pipe(z.email({ error: 'email is not a valid address' })).transform(v => v.toLowerCase()),
   shippingAddress: shippingAddressSchema,
   zone: z.string({ error: 'zone is required' }).trim().min(1, 'zone is required').max(60),
@@ -42,7 +45,7 @@ export const checkoutSchema = z.object({
   // Made by the browser for one press of "Go to payment" (kept while the cart and form stay the same),
   // so a doubled or retried request finds the order the first one made instead of holding stock twice.
   checkoutKey: z.string({ error: 'checkoutKey must be text' }).regex(/^[A-Za-z0-9_-]{16,80}$/, 'checkoutKey must be 16 to 80 letters, digits, "-" or "_"').optional(),
-})
+}).refine(body => (body.items?.length ?? 0) + (body.customMessages?.length ?? 0) > 0, { message: 'items: the cart is empty', path: ['items'] })
 
 export type CartItemInput = z.infer<typeof cartItemSchema>
 export type CheckoutInput = z.infer<typeof checkoutSchema>

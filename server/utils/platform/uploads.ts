@@ -282,12 +282,14 @@ const damagedSample = (message: string, status = 400) => createError({
  * Reads an audio sample through to its end before it is kept, so that what the shop plays is a whole,
  * playable file: a WAV through the surface-test decoder (every chunk in place, the data chunk complete
  * and holding samples), an MP3 frame by frame, an Ogg page by page. Throws a 400 (415 for a WAV in an
- * encoding we do not take) naming `file`.
+ * encoding we do not take) naming `file`. Answers the duration the walk measured: a WAV's from its
+ * header (frames ÷ sample rate), an MP3's from its frames (samples per frame ÷ sample rate, summed), an
+ * Ogg's from its last page's granule position ÷ the stream's sample rate.
  */
-export function checkAudioSample(bytes: Uint8Array, mime: string) {
+export function checkAudioSample(bytes: Uint8Array, mime: string): { seconds: number } {
   if (mime === 'audio/wav') {
     try {
-      decodeWav(bytes)
+      return { seconds: decodeWav(bytes).durationS }
     }
     catch (error) {
       if (!(error instanceof AudioInputError)) throw error
@@ -298,10 +300,10 @@ export function checkAudioSample(bytes: Uint8Array, mime: string) {
       } as Record<string, string>)[error.code] ?? error.message.replace(/\s*Export the play-through[^.]*\.\s*$/, '')
       throw damagedSample(reason, error.statusCode === 415 ? 415 : 400)
     }
-    return
   }
-  const problem = mime === 'audio/mpeg' ? mp3Problem(bytes) : mime === 'audio/ogg' ? oggProblem(bytes) : 'This is not an audio file we take.'
-  if (problem) throw damagedSample(problem)
+  const walked = mime === 'audio/mpeg' ? mp3Walk(bytes) : mime === 'audio/ogg' ? oggWalk(bytes) : { problem: 'This is not an audio file we take.', seconds: 0 }
+  if (walked.problem) throw damagedSample(walked.problem)
+  return { seconds: walked.seconds }
 }
 
 // MPEG-1/2/2.5 audio frame headers: bit rates in kbit/s by [version 1 or 2][layer 1–3][index], sample rates by version.
@@ -323,6 +325,8 @@ interface MpegFrame {
   /** Version bits, layer bits and sample-rate index: the same in every frame of one stream. */
   stream: number
   length: number
+  /** Seconds of sound the frame holds: its samples (384, 1152, or 576 for layer 3 below MPEG-1) ÷ its sample rate. */
+  seconds: number
 }
 
 /** The MPEG audio frame whose header starts at `offset`, or null if these 4 bytes are not one. */
@@ -345,7 +349,8 @@ function mpegFrameAt(bytes: Uint8Array, offset: number): MpegFrame | null {
   const length = layer === 1
     ? (Math.floor((12 * kbps * 1000) / sampleRate) + padding) * 4
     : Math.floor(((layer === 3 && version !== 3 ? 72 : 144) * kbps * 1000) / sampleRate) + padding
-  return { stream: (b1 & 0x1e) | (rateIndex << 5), length }
+  const samples = layer === 1 ? 384 : layer === 3 && version !== 3 ? 576 : 1152
+  return { stream: (b1 & 0x1e) | (rateIndex << 5), length, seconds: samples / sampleRate }
 }
 
 /** Size of the ID3v2 tag at `offset` (header, body and footer), or 0 if there is none. */
@@ -363,11 +368,18 @@ function id3v2Size(bytes: Uint8Array, offset: number): number {
  * follow each other to the end of the file (or to a trailing APEv2 and/or ID3v1 tag), at least two.
  */
 export function mp3Problem(bytes: Uint8Array): string | null {
+  return mp3Walk(bytes).problem
+}
+
+/** The MP3 walk of `mp3Problem`, with the seconds its frames hold. */
+export function mp3Walk(bytes: Uint8Array): { problem: string | null, seconds: number } {
+  const failed = (problem: string) => ({ problem, seconds: 0 })
+  let seconds = 0
   let offset = 0
   for (let size = id3v2Size(bytes, 0); size !== 0; size = id3v2Size(bytes, offset)) {
-    if (size < 0) return 'This MP3 file\'s ID3 tag is damaged.'
+    if (size < 0) return failed('This MP3 file\'s ID3 tag is damaged.')
     offset += size
-    if (offset > bytes.length) return 'This MP3 file is cut short: it ends inside its ID3 tag.'
+    if (offset > bytes.length) return failed('This MP3 file is cut short: it ends inside its ID3 tag.')
   }
   let end = bytes.length
   const tagAt = (at: number, text: string) => at >= offset && [...text].every((ch, i) => bytes[at + i] === ch.charCodeAt(0))
@@ -375,7 +387,7 @@ export function mp3Problem(bytes: Uint8Array): string | null {
   if (tagAt(end - 32, 'APETAGEX')) {
     const view = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength)
     const apeSize = view.readUInt32LE(end - 32 + 12) + ((view.readUInt32LE(end - 32 + 20) & 0x80000000) ? 32 : 0)
-    if (apeSize < 32 || end - apeSize < offset) return 'This MP3 file\'s APE tag is damaged.'
+    if (apeSize < 32 || end - apeSize < offset) return failed('This MP3 file\'s APE tag is damaged.')
     end -= apeSize
   }
   let frames = 0
@@ -383,17 +395,18 @@ export function mp3Problem(bytes: Uint8Array): string | null {
   while (offset < end) {
     const frame = mpegFrameAt(bytes, offset)
     if (!frame || (stream !== null && frame.stream !== stream)) {
-      return frames === 0
+      return failed(frames === 0
         ? 'This is not a playable MP3 file: no MPEG audio frame starts where its audio should.'
-        : `This MP3 file is damaged: after ${frames} audio frame${frames === 1 ? '' : 's'}, byte ${offset} is not the start of another.`
+        : `This MP3 file is damaged: after ${frames} audio frame${frames === 1 ? '' : 's'}, byte ${offset} is not the start of another.`)
     }
-    if (offset + frame.length > end) return `This MP3 file is cut short: its last audio frame needs ${frame.length} bytes but only ${end - offset} arrived. Upload the whole file again.`
+    if (offset + frame.length > end) return failed(`This MP3 file is cut short: its last audio frame needs ${frame.length} bytes but only ${end - offset} arrived. Upload the whole file again.`)
     stream = frame.stream
     offset += frame.length
+    seconds += frame.seconds
     frames++
   }
-  if (frames < 2) return 'This MP3 file holds no audio.'
-  return null
+  if (frames < 2) return failed('This MP3 file holds no audio.')
+  return { problem: null, seconds }
 }
 
 let oggCrcTable: Uint32Array | undefined
@@ -419,38 +432,65 @@ function oggCrc(page: Uint8Array): number {
  * the file, the first opening a Vorbis, Opus or FLAC stream, the last closing it, audio in between.
  */
 export function oggProblem(bytes: Uint8Array): string | null {
+  return oggWalk(bytes).problem
+}
+
+/** The sample rate an Ogg stream's first packet declares (Opus always counts at 48 kHz), or 0. */
+function oggSampleRate(view: Buffer, packet: number, end: number): number {
+  const at = (offset: number, size: number) => packet + offset + size <= end
+  if (view.toString('latin1', packet, packet + 7) === '\x01vorbis' && at(12, 4)) return view.readUInt32LE(packet + 12)
+  if (view.toString('latin1', packet, packet + 8) === 'OpusHead') return 48_000
+  // FLAC in Ogg: 0x7F "FLAC", version, header count, "fLaC", a block header, then STREAMINFO whose
+  // 20-bit sample rate starts 10 bytes in.
+  if (view.toString('latin1', packet, packet + 5) === '\x7fFLAC' && at(27, 3)) return (view[packet + 27]! << 12) | (view[packet + 28]! << 4) | (view[packet + 29]! >> 4)
+  return 0
+}
+
+/** The Ogg walk of `oggProblem`, with the seconds its first stream's last granule position gives. */
+export function oggWalk(bytes: Uint8Array): { problem: string | null, seconds: number } {
+  const failed = (problem: string) => ({ problem, seconds: 0 })
+  let sampleRate = 0
+  let serial = 0
+  let opusPreSkip = 0
+  let lastGranule = 0n
   const view = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength)
   let offset = 0
   let pages = 0
   let lastFlags = 0
   let audio = false
   while (offset < bytes.length) {
-    if (offset + 27 > bytes.length) return 'This Ogg file is cut short: it ends inside a page header. Upload the whole file again.'
+    if (offset + 27 > bytes.length) return failed('This Ogg file is cut short: it ends inside a page header. Upload the whole file again.')
     if (view.toString('latin1', offset, offset + 4) !== 'OggS' || bytes[offset + 4] !== 0) {
-      return pages === 0 ? 'This is not a playable Ogg file.' : `This Ogg file is damaged: after ${pages} page${pages === 1 ? '' : 's'}, byte ${offset} is not the start of another.`
+      return failed(pages === 0 ? 'This is not a playable Ogg file.' : `This Ogg file is damaged: after ${pages} page${pages === 1 ? '' : 's'}, byte ${offset} is not the start of another.`)
     }
     const segments = bytes[offset + 26]!
-    if (offset + 27 + segments > bytes.length) return 'This Ogg file is cut short: it ends inside a page header. Upload the whole file again.'
+    if (offset + 27 + segments > bytes.length) return failed('This Ogg file is cut short: it ends inside a page header. Upload the whole file again.')
     let bodyLength = 0
     for (let i = 0; i < segments; i++) bodyLength += bytes[offset + 27 + i]!
     const pageEnd = offset + 27 + segments + bodyLength
-    if (pageEnd > bytes.length) return 'This Ogg file is cut short: its last page is incomplete. Upload the whole file again.'
+    if (pageEnd > bytes.length) return failed('This Ogg file is cut short: its last page is incomplete. Upload the whole file again.')
     const page = bytes.subarray(offset, pageEnd)
-    if (oggCrc(page) !== view.readUInt32LE(offset + 22)) return `This Ogg file is damaged: page ${pages + 1} fails its checksum.`
+    if (oggCrc(page) !== view.readUInt32LE(offset + 22)) return failed(`This Ogg file is damaged: page ${pages + 1} fails its checksum.`)
     const flags = bytes[offset + 5]!
     if (pages === 0) {
       const first = view.toString('latin1', offset + 27 + segments, Math.min(pageEnd, offset + 27 + segments + 8))
-      if (!(flags & 2)) return 'This Ogg file is damaged: its first page does not open a stream.'
-      if (!['\x01vorbis', 'OpusHead', '\x7fFLAC'].some(codec => first.startsWith(codec))) return 'This Ogg file holds no Vorbis, Opus or FLAC audio.'
+      if (!(flags & 2)) return failed('This Ogg file is damaged: its first page does not open a stream.')
+      if (!['\x01vorbis', 'OpusHead', '\x7fFLAC'].some(codec => first.startsWith(codec))) return failed('This Ogg file holds no Vorbis, Opus or FLAC audio.')
+      serial = view.readUInt32LE(offset + 14)
+      sampleRate = oggSampleRate(view, offset + 27 + segments, pageEnd)
+      if (first.startsWith('OpusHead') && offset + 27 + segments + 12 <= pageEnd) opusPreSkip = view.readUInt16LE(offset + 27 + segments + 10)
     }
-    if (view.readBigInt64LE(offset + 6) > 0n) audio = true
+    const granule = view.readBigInt64LE(offset + 6)
+    if (granule > 0n) audio = true
+    // A page that ends no packet carries -1; only the first stream's pages count.
+    if (granule > 0n && view.readUInt32LE(offset + 14) === serial) lastGranule = granule
     lastFlags = flags
     pages++
     offset = pageEnd
   }
-  if (!(lastFlags & 4)) return 'This Ogg file is cut short: its stream never ends. Upload the whole file again.'
-  if (!audio) return 'This Ogg file holds no audio.'
-  return null
+  if (!(lastFlags & 4)) return failed('This Ogg file is cut short: its stream never ends. Upload the whole file again.')
+  if (!audio) return failed('This Ogg file holds no audio.')
+  return { problem: null, seconds: sampleRate > 0 ? Math.max(0, Number(lastGranule) - opusPreSkip) / sampleRate : 0 }
 }
 
 export async function readStoredFile(id: string): Promise<Buffer | null> {

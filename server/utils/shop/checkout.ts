@@ -25,8 +25,12 @@ export async function placeCheckoutOrder(db: Database, input: CheckoutInput, use
       const [earlier] = await tx.select().from(orders).where(eq(orders.checkoutKey, input.checkoutKey))
       if (earlier) return { earlier }
     }
-    const quote = await quoteCart(tx, input)
-    if (quote.changes.some(change => change.kind !== 'price' || !input.acceptChanges)) return { changes: quote.changes, quote }
+    // Personal messages are quoted again here (400 naming the field for anything the quote refuses).
+    const settings = await getSetting('engine', tx)
+    const messages = await prepareCheckoutMessages(tx, input.customMessages ?? [], userId, settings)
+    const cartQuote = await quoteCart(tx, { ...input, items: input.items ?? [] })
+    if (cartQuote.changes.some(change => change.kind !== 'price' || !input.acceptChanges)) return { changes: cartQuote.changes, quote: cartQuote }
+    const quote = quoteWithMessages(cartQuote, messages, settings)
     // Always in product order, so two carts holding the same products cannot deadlock each other.
     for (const line of [...quote.lines].sort((a, b) => a.productId - b.productId)) {
       const [taken] = await tx.update(products).set({ stock: sql`${products.stock} - ${line.qty}` })
@@ -47,20 +51,24 @@ export async function placeCheckoutOrder(db: Database, input: CheckoutInput, use
       reservationExpiresAt: new Date(Date.now() + holdMinutes * 60_000),
       checkoutKey: input.checkoutKey ?? null,
     }).returning()
-    await tx.insert(orderItems).values(quote.lines.map(line => ({
-      orderId: order!.id,
-      productId: line.productId,
-      kind: line.kind,
-      title: line.title,
-      format: line.format,
-      quantity: line.qty,
-      unitPriceMinor: line.unitPriceMinor,
-      lineTotalMinor: line.lineTotalMinor,
-      taxMinor: line.taxMinor,
-      madeToOrder: line.madeToOrder,
-    })))
+    if (quote.lines.length) {
+      await tx.insert(orderItems).values(quote.lines.map(line => ({
+        orderId: order!.id,
+        productId: line.productId,
+        kind: line.kind,
+        title: line.title,
+        format: line.format,
+        quantity: line.qty,
+        unitPriceMinor: line.unitPriceMinor,
+        lineTotalMinor: line.lineTotalMinor,
+        taxMinor: line.taxMinor,
+        madeToOrder: line.madeToOrder,
+      })))
+    }
+    await insertMessageItems(tx, order!.id, messages, quote.messageLines)
     await tx.insert(orderEvents).values({ orderId: order!.id, toStatus: 'awaiting_payment', actorUserId: userId })
-    return { order: order!, quote }
+    // The payment page lists the messages beside the cart's lines.
+    return { order: order!, quote: { ...quote, lines: [...quote.lines, ...quote.messageLines] } }
   }).catch(async (error): Promise<CheckoutOutcome> => {
     if (error instanceof CheckoutSoldOut) {
       throw createError({ statusCode: 409, statusMessage: 'Sold out', message: `Sorry — ${error.message} sold out while you were checking out. Nothing was charged.`, data: { soldOut: true } })

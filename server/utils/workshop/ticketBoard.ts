@@ -1,6 +1,6 @@
 import { and, asc, count, eq, gte, ilike, lt, lte, ne, or, sql } from 'drizzle-orm'
 import { z } from 'zod'
-import { blanks, orderItems, orders, recorders, ticketEvents, tickets } from '../../db/schema'
+import { blanks, customMessages, orderItems, orders, recorders, ticketEvents, tickets } from '../../db/schema'
 import type { Database } from '../platform/db'
 
 /** The most tickets one page of the board holds; the answer says how many there are in all. */
@@ -54,11 +54,13 @@ export async function ticketBoard(db: Database, query: z.output<typeof ticketBoa
     orderNumber: orders.number, orderStatus: orders.status, customer: sql<string>`${orders.shippingAddress}->>'name'`,
     blankCode: blanks.code, recorderName: recorders.name, cutAt: tickets.cutAt,
     recuts: recutCount, lastRecutNote,
+    message: { wishedDate: customMessages.wishedDate, quote: customMessages.quote, voice: customMessages.voice },
   }).from(tickets)
     .innerJoin(orders, eq(orders.id, tickets.orderId))
     .innerJoin(orderItems, eq(orderItems.id, tickets.orderItemId))
     .leftJoin(blanks, eq(blanks.id, tickets.blankId))
     .leftJoin(recorders, eq(recorders.id, tickets.recorderId))
+    .leftJoin(customMessages, eq(customMessages.orderItemId, tickets.orderItemId))
     .where(where)
     .orderBy(asc(tickets.dueDate), asc(tickets.id))
     .limit(query.pageSize)
@@ -71,6 +73,8 @@ export async function ticketBoard(db: Database, query: z.output<typeof ticketBoa
     pageSize: query.pageSize,
     tickets: rows.map(row => ({
       ...row,
+      // A personal message: its wished-for date and how its script fits (null for other tickets).
+      message: messageSummaryForTicket(row.message?.wishedDate ? row.message as { wishedDate: string, quote: Record<string, unknown>, voice: string } : null),
       recuts: Number(row.recuts),
       // The log keeps "Recut: <reason>"; the board shows the reason.
       lastRecutNote: row.lastRecutNote?.replace(/^Recut:\s*/, '') ?? null,

@@ -27,7 +27,9 @@ export default defineEventHandler(async (event) => {
     surfaceTest: surfaceTest && { aWeightedDbfs: surfaceTest.aWeightedDbfs, rotaryDb: surfaceTest.rotaryDb, clicksPerMinute: surfaceTest.clicksPerMinute, finalVerdict: surfaceTest.finalVerdict, testedAt: surfaceTest.testedAt },
     recorder: recorder ? { id: recorder.id, name: recorder.name } : null,
     suggestedRecorder: suggestedRecorder(await rankRecorders(db)),
-    moves: ticketMovesFrom({ stage: ticket.stage, kind }, order.status).filter(rule => rule.route === 'stage'),
+    // A message's proof goes out by uploading it (the proof form), not by a stage change.
+    moves: ticketMovesFrom({ stage: ticket.stage, kind }, order.status).filter(rule => rule.route === 'stage' && !(kind === 'custom' && rule.to === 'proof_sent')),
+    message: messageSummaryForTicket((await ticketMessage(db, ticket.id))?.message ?? null),
     events: await ticketHistory(db, ticket.id),
   }
 })
