@@ -233,7 +233,7 @@ export async function drawPackingSlip(slip: PackingSlip, paper: SlipPaper): Prom
   const careQr = await qrPng(slip.careUrl)
   const careSize = 64
   const careText = 'Unpack on a table. Lift each cylinder by its ends, a finger inside the bore, never touching the grooves. '
-    + 'Keep cylinders standing on end in their boxes, at a steady 65–70\u00A0°F (18–21\u00A0°C) and moderate humidity, away from sun and heaters.'
+    + 'Keep cylinders standing on end in their boxes, at a steady 65 to 70\u00A0°F (18 to 21\u00A0°C) and moderate humidity, away from sun and heaters.'
   const careWidth = width - careSize - 24
   const careTextHeight = doc.font('Bold').fontSize(12).heightOfString('Caring', { width: careWidth }) + 2
     + doc.font('Body').fontSize(10).heightOfString(careText, { width: careWidth }) + 4

@@ -1,0 +1,187 @@
+import { execFileSync } from 'node:child_process'
+import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { url } from '@nuxt/test-utils/e2e'
+import { beforeAll, describe, expect, it } from 'vitest'
+import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { Client, signedIn, useTestServer } from './harness'
+
+/*
+ * The packing slip and the address label, read back the way a scanner and a person read them: each
+ * PDF is rasterised at 200 dpi with poppler's pdftoppm and its codes decoded with zbarimg (Debian's
+ * poppler-utils and zbar-tools, the reference tools here), its words taken out with pdftotext, and its
+ * page size and word boxes with pdfinfo and pdftotext -bbox.
+ */
+
+const siteUrl = 'http://localhost:3000'
+await useTestServer({ NUXT_SITE_URL: siteUrl })
+
+const account = (role: string) => demoAccounts.find(a => a.role === role)!
+const work = mkdtempSync(join(tmpdir(), 'gw-slip-'))
+let maker: Client
+let shipper: Client
+let collector: Client
+let orderNumber: string
+let shipToName: string
+let certificates: { ticketId: number, blankCode: string }[]
+
+/** GET as a client, body as bytes (the harness's client reads text, which would spoil a PDF). */
+async function fetchBytes(client: Client | null, path: string) {
+  const headers: Record<string, string> = {}
+  if (client?.cookies.size) headers.cookie = [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+  const send = () => fetch(url(path), { headers })
+  // A kept-alive connection the server closed for idleness just as it was reused: sent once more (as the harness's client does).
+  const response = await send().catch((error: { cause?: { code?: string } }) => {
+    if (error?.cause?.code === 'UND_ERR_SOCKET') return send()
+    throw error
+  })
+  return { status: response.status, type: response.headers.get('content-type') ?? '', bytes: Buffer.from(await response.arrayBuffer()) }
+}
+
+function run(command: string, args: string[]): string {
+  return execFileSync(command, args, { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] })
+}
+
+interface ReadPdf { codes: string[], text: string, pageSizes: string[], words: { page: { width: number, height: number }, x0: number, y0: number, x1: number, y1: number, word: string }[] }
+
+/** Everything a reader gets from the PDF: decoded codes (every page at 200 dpi), text, page sizes, word boxes. */
+function readPdf(name: string, bytes: Buffer): ReadPdf {
+  const file = join(work, `${name}.pdf`)
+  writeFileSync(file, bytes)
+  run('pdftoppm', ['-r', '200', '-png', file, join(work, name)])
+  const pngs = readdirSync(work).filter(entry => entry.startsWith(`${name}-`) && entry.endsWith('.png')).sort()
+  const codes = pngs.flatMap((png) => {
+    try {
+      return run('zbarimg', ['--raw', '-q', join(work, png)]).split('\n').map(line => line.trim()).filter(Boolean)
+    }
+    catch {
+      return [] // zbarimg exits 4 when a page holds no code
+    }
+  })
+  const text = run('pdftotext', ['-layout', file, '-'])
+  const info = run('pdfinfo', ['-f', '1', '-l', '99', file])
+  const pageSizes = [...info.matchAll(/Page\s+\d+ size:\s+([\d.]+ x [\d.]+) pts/g)].map(match => match[1]!)
+  const bbox = run('pdftotext', ['-bbox', file, '-'])
+  const words: ReadPdf['words'] = []
+  for (const page of bbox.split('<page ').slice(1)) {
+    const [, width, height] = /width="([\d.]+)" height="([\d.]+)"/.exec(page)!
+    for (const found of page.matchAll(/<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g)) {
+      words.push({ page: { width: Number(width), height: Number(height) }, x0: Number(found[1]), y0: Number(found[2]), x1: Number(found[3]), y1: Number(found[4]), word: found[5]! })
+    }
+  }
+  return { codes, text, pageSizes, words }
+}
+
+beforeAll(async () => {
+  maker = await signedIn(account('maker').email, account('maker').password)
+  shipper = await signedIn(account('shipper').email, account('shipper').password)
+  collector = await signedIn(account('collector').email, account('collector').password)
+  // The demo order waiting to be packed: a recorded cylinder cut to order on a tested blank.
+  const list = await maker.get('/api/workshop/orders?status=ready_to_pack')
+  expect(list.status).toBe(200)
+  expect(list.body.rows.length).toBeGreaterThan(0)
+  orderNumber = list.body.rows[0].number
+  shipToName = list.body.rows[0].name
+  const issued = await maker.get(`/api/certificates?order=${orderNumber}`)
+  expect(issued.status).toBe(200)
+  expect(issued.body.certificates.length).toBeGreaterThan(0)
+  certificates = []
+  for (const { ticketId } of issued.body.certificates as { ticketId: number }[]) {
+    const certificate = await maker.get(`/api/certificates/${ticketId}`)
+    expect(certificate.status).toBe(200)
+    certificates.push({ ticketId, blankCode: certificate.body.blank.code })
+  }
+})
+
+const papers = [
+  { paper: 'a4', size: '595.28 x 841.89' },
+  { paper: 'letter', size: '612 x 792' },
+] as const
+
+describe('packing slip', () => {
+  for (const { paper, size } of papers) {
+    it(`on ${paper} paper: barcode of the order, QR of each certificate and of the care guide, the cautions, no price`, async () => {
+      const answer = await fetchBytes(shipper, `/api/dispatch/${orderNumber}/slip.pdf?paper=${paper}`)
+      expect(answer.status).toBe(200)
+      expect(answer.type).toBe('application/pdf')
+      expect(answer.bytes.subarray(0, 5).toString()).toBe('%PDF-')
+      const pdf = readPdf(`slip-${paper}`, answer.bytes)
+
+      expect(pdf.pageSizes.length).toBeGreaterThan(0)
+      for (const pageSize of pdf.pageSizes) expect(pageSize).toBe(size)
+      // Scanned as a scanner would: the Code 128 reads the order number, each QR its certificate's address.
+      expect(pdf.codes).toContain(orderNumber)
+      for (const { ticketId } of certificates) expect(pdf.codes).toContain(`${siteUrl}/certificates/${ticketId}`)
+      expect(pdf.codes).toContain(`${siteUrl}/guides/care`)
+
+      const words = pdf.text.replace(/\s+/g, ' ')
+      for (const caution of ['FRAGILE', 'KEEP AWAY FROM HEAT AND DIRECT SUN', 'DO NOT LEAVE IN A VEHICLE', 'LET THE PARCEL REACH ROOM TEMPERATURE BEFORE OPENING', 'STORE CYLINDERS UPRIGHT', 'PLAY WITH THE RIGHT STYLUS']) {
+        expect(words).toContain(caution)
+      }
+      expect(words).toMatch(/stylus/i)
+      expect(words).toContain(`${siteUrl}/guides/care`)
+      expect(words).toContain(orderNumber)
+      expect(words).toMatch(/\d{3} rpm/)
+      expect(words).toMatch(/[24]-minute/)
+      for (const { blankCode } of certificates) expect(words).toContain(blankCode)
+      // The ship-to name and the shop's return address are on it.
+      expect(words).toContain(shipToName)
+      expect(words).toContain('Tallow Yard')
+      // Never a price: no currency sign or code, no amount with cents.
+      expect(words).not.toMatch(/[$€£¥]|\b(?:USD|EUR|GBP)\b|\d+\.\d{2}\b|price|total/i)
+      // Nothing cut off: every word at least 20 pt inside the page's edges.
+      expect(pdf.words.length).toBeGreaterThan(50)
+      for (const word of pdf.words) {
+        expect(word.x0, word.word).toBeGreaterThanOrEqual(20)
+        expect(word.y0, word.word).toBeGreaterThanOrEqual(20)
+        expect(word.x1, word.word).toBeLessThanOrEqual(word.page.width - 20)
+        expect(word.y1, word.word).toBeLessThanOrEqual(word.page.height - 20)
+      }
+    })
+  }
+
+  it('comes in A4 when no paper is named, and refuses an unknown paper naming the field', async () => {
+    const plain = await fetchBytes(maker, `/api/dispatch/${orderNumber}/slip.pdf`)
+    expect(plain.status).toBe(200)
+    expect(readPdf('slip-default', plain.bytes).pageSizes[0]).toBe('595.28 x 841.89')
+    const wrong = await shipper.get(`/api/dispatch/${orderNumber}/slip.pdf?paper=a3`)
+    expect(wrong.status).toBe(400)
+    expect(wrong.body.data.fields.paper).toMatch(/a4 or letter/)
+  })
+
+  it('is for the shipper and the maker only; an unknown order is 404, one not ready to pack 409', async () => {
+    expect((await collector.get(`/api/dispatch/${orderNumber}/slip.pdf`)).status).toBe(403)
+    expect((await new Client().get(`/api/dispatch/${orderNumber}/slip.pdf`)).status).toBe(401)
+    expect((await collector.get(`/api/dispatch/${orderNumber}/label.pdf`)).status).toBe(403)
+    expect((await new Client().get(`/api/dispatch/${orderNumber}/label.pdf`)).status).toBe(401)
+    expect((await shipper.get('/api/dispatch/GW00-99999/slip.pdf')).status).toBe(404)
+    expect((await shipper.get('/api/dispatch/GW00-99999/label.pdf')).status).toBe(404)
+    const unpaid = await maker.get('/api/workshop/orders?status=awaiting_payment')
+    expect(unpaid.body.rows.length).toBeGreaterThan(0)
+    const early = await shipper.get(`/api/dispatch/${unpaid.body.rows[0].number}/slip.pdf`)
+    expect(early.status).toBe(409)
+  })
+})
+
+describe('address label', () => {
+  it('is 4 × 6 in with both addresses, the order barcode, FRAGILE and KEEP COOL', async () => {
+    const answer = await fetchBytes(shipper, `/api/dispatch/${orderNumber}/label.pdf`)
+    expect(answer.status).toBe(200)
+    expect(answer.type).toBe('application/pdf')
+    const pdf = readPdf('label', answer.bytes)
+    expect(pdf.pageSizes).toEqual(['288 x 432'])
+    expect(pdf.codes).toEqual([orderNumber])
+    const words = pdf.text.replace(/\s+/g, ' ')
+    expect(words).toContain('FRAGILE')
+    expect(words).toContain('KEEP COOL')
+    expect(words).toContain('Tallow Yard')
+    expect(words).toContain(shipToName)
+    expect(words).not.toMatch(/[$€£¥]|\d+\.\d{2}\b/)
+    for (const word of pdf.words) {
+      expect(word.x0, word.word).toBeGreaterThanOrEqual(10)
+      expect(word.x1, word.word).toBeLessThanOrEqual(word.page.width - 10)
+      expect(word.y1, word.word).toBeLessThanOrEqual(word.page.height - 10)
+    }
+  })
+})
