@@ -3,6 +3,7 @@
 import { mkdirSync, readFileSync, readdirSync, writeFileSync, rmSync } from 'node:fs'
 import { createServer, type Server } from 'node:http'
 import { join } from 'node:path'
+import escapeHtml from 'escape-html'
 import { simpleParser } from 'mailparser'
 import { SMTPServer } from 'smtp-server'
 
@@ -23,8 +24,6 @@ export interface MailFakeOptions {
   dir?: string
   quiet?: boolean
 }
-
-const escapeHtml = (text: string) => text.replace(/[&<>"']/g, ch => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[ch]!)
 
 export async function startMailFake(options: MailFakeOptions = {}) {
   const smtpPort = options.smtpPort ?? 2525

@@ -1,7 +1,8 @@
 // The stand-in's own hosted checkout page: plain HTML forms, no scripts, no outside resources, and a
 // deliberately neutral look of its own (it must not pass for the real service).
 import type { CheckoutSession, LineItem } from './state'
-import { escapeHtml, formatAmount } from './util'
+import escapeHtml from 'escape-html'
+import { formatAmount } from './util'
 
 export const PAGE_TITLE = 'Local test checkout — no real money moves'
 

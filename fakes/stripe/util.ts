@@ -283,5 +283,3 @@ export function formatAmount(amount: number, currency: string, locale = 'en-GB')
   const digits = format.resolvedOptions().maximumFractionDigits ?? 2
   return format.format(amount / 10 ** digits)
 }
-
-export const escapeHtml = (text: string) => text.replace(/[&<>"']/g, ch => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[ch]!)

@@ -8,6 +8,7 @@ import { analyseSurfaceWav, makeSurfaceWav } from '../audio'
 import { blanks, customMessages, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import { hashPassword } from '#imports'
+import { productSlugFrom } from '#shared/utils/catalogueSchemas'
 import { demoAccounts } from '#shared/utils/demoAccounts'
 import { addDaysToDate, quoteCustomMessage, shopToday } from '#shared/utils/messageQuote'
 import type { Database, Transaction } from '../utils/platform/db'
@@ -96,8 +97,7 @@ const demoCollectors = [
   { name: 'Osric Dunmore', email: 'osric.dunmore@collectors.test', address: { line1: 'The Old Chandlery, Gannet Row', city: 'Lowmere', postalCode: 'LM9 3GR', country: 'Fernland' } },
 ]
 
-const slug = (name: string) => name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '')
-const demoCutFileId = (recorder: string, index: number) => `demo-testcut-${slug(recorder)}-${index + 1}`
+const demoCutFileId = (recorder: string, index: number) => `demo-testcut-${productSlugFrom(recorder)}-${index + 1}`
 
 function testCutWav(recorder: DemoRecorder, index: number, count: number, seed: number): Uint8Array {
   const share = count > 1 ? index / (count - 1) : 0

@@ -1,7 +1,6 @@
 import { eq } from 'drizzle-orm'
+import escapeXml from 'escape-html'
 import { products } from '../db/schema'
-
-const escapeXml = (text: string) => text.replace(/[<>&'"]/g, ch => ({ '<': '&lt;', '>': '&gt;', '&': '&amp;', '\'': '&apos;', '"': '&quot;' })[ch]!)
 
 export default defineEventHandler(async (event) => {
   const site = String(useRuntimeConfig(event).siteUrl).replace(/\/$/, '')

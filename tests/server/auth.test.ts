@@ -107,7 +107,7 @@ describe('backups', () => {
     else {
       expect(download.status).toBe(200)
       expect(download.headers.get('content-type')).toBe('application/gzip')
-      expect(download.headers.get('content-disposition')).toMatch(/^attachment; filename="groovewright-.*\.tar\.gz"$/)
+      expect(download.headers.get('content-disposition')).toMatch(/^attachment; filename="?groovewright-[\w.-]*\.tar\.gz"?$/)
     }
   })
 })

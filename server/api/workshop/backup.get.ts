@@ -1,4 +1,5 @@
 import { createReadStream } from 'node:fs'
+import { create as contentDisposition } from 'content-disposition'
 import { mkdtemp, rm } from 'node:fs/promises'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
@@ -12,7 +13,7 @@ export default defineEventHandler(async (event) => {
     const { file, bytes } = await writeBackupArchive(join(dir, name))
     setResponseHeader(event, 'content-type', 'application/gzip')
     setResponseHeader(event, 'content-length', bytes)
-    setResponseHeader(event, 'content-disposition', `attachment; filename="groovewright-${name}"`)
+    setResponseHeader(event, 'content-disposition', contentDisposition(`groovewright-${name}`))
     setResponseHeader(event, 'cache-control', 'no-store')
     const stream = createReadStream(file)
     stream.on('close', () => void rm(dir, { recursive: true, force: true }))

@@ -1,4 +1,5 @@
 import { and, asc, eq, lte, sql } from 'drizzle-orm'
+import escapeHtml from 'escape-html'
 import nodemailer from 'nodemailer'
 import type { Transporter } from 'nodemailer'
 import { mailOutbox } from '../../db/schema'
@@ -8,10 +9,6 @@ export interface MailContent {
   heading: string
   paragraphs: string[]
   action?: { label: string, url: string }
-}
-
-function escapeHtml(text: string): string {
-  return text.replace(/[&<>"']/g, ch => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[ch]!)
 }
 
 /** Plain-text and HTML parts of one message, with the shop's name and address at the foot. */

@@ -1,7 +1,10 @@
 import { randomBytes } from 'node:crypto'
+import { create as contentDisposition } from 'content-disposition'
 import { resolve } from 'node:path'
 import { inArray } from 'drizzle-orm'
 import type { H3Event } from 'h3'
+import { fileTypeFromBuffer } from 'file-type'
+import parseRange from 'range-parser'
 import sharp from 'sharp'
 import type { Storage } from 'unstorage'
 import type { UploadLimit, UploadPurpose } from '#shared/utils/catalogueSchemas'
@@ -125,34 +128,46 @@ interface Sniffed {
   format: string
 }
 
-const startsWith = (bytes: Uint8Array, signature: number[], offset = 0) => signature.every((value, i) => bytes[offset + i] === value)
-const ascii = (text: string) => [...text].map(ch => ch.charCodeAt(0))
+const photo = (mime: string, format: string): Sniffed => ({ purpose: 'photo', mime, format })
+const audio = (mime: string, format: string): Sniffed => ({ purpose: 'audio', mime, format })
+
+/** The kinds we take, by file-type's extension: MPEG audio of any layer is read as MP3, any Ogg stream as Ogg. */
+const takenKinds: Record<string, Sniffed> = {
+  jpg: photo('image/jpeg', 'JPEG'),
+  png: photo('image/png', 'PNG'),
+  webp: photo('image/webp', 'WebP'),
+  wav: audio('audio/wav', 'WAV'),
+  ...Object.fromEntries(['mp3', 'mp2', 'mp1'].map(ext => [ext, audio('audio/mpeg', 'MP3')])),
+  ...Object.fromEntries(['ogg', 'oga', 'opus', 'spx', 'ogv', 'ogm', 'ogx'].map(ext => [ext, audio('audio/ogg', 'Ogg')])),
+}
 
 /**
- * The 11 sync bits an MPEG audio frame starts with. Only a claim: an audio sample is then read frame by
- * frame (`mp3Problem`), so sync bytes in front of anything else are refused as a damaged MP3.
+ * An ID3 tag or the 11 sync bits an MPEG audio frame starts with, in front of something file-type does not
+ * recognise. Only a claim: an audio sample is then read frame by frame (`mp3Problem`), so these bytes in
+ * front of anything else are refused as a damaged MP3 rather than as an unknown kind.
  */
-function startsWithMpegSync(bytes: Uint8Array): boolean {
-  return bytes[0] === 0xff && ((bytes[1] ?? 0) & 0xe0) === 0xe0
+function startsLikeMp3(bytes: Uint8Array): boolean {
+  const id3 = bytes[0] === 0x49 && bytes[1] === 0x44 && bytes[2] === 0x33
+  return id3 || (bytes[0] === 0xff && ((bytes[1] ?? 0) & 0xe0) === 0xe0)
 }
 
-/** What the bytes are, by their first bytes alone: the declared type and the extension are not trusted. */
-export function sniffFile(bytes: Uint8Array): Sniffed | null {
-  if (startsWith(bytes, [0xff, 0xd8, 0xff])) return { purpose: 'photo', mime: 'image/jpeg', format: 'JPEG' }
-  if (startsWith(bytes, [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])) return { purpose: 'photo', mime: 'image/png', format: 'PNG' }
-  if (startsWith(bytes, ascii('RIFF')) && startsWith(bytes, ascii('WEBP'), 8)) return { purpose: 'photo', mime: 'image/webp', format: 'WebP' }
-  if (startsWith(bytes, ascii('RIFF')) && startsWith(bytes, ascii('WAVE'), 8)) return { purpose: 'audio', mime: 'audio/wav', format: 'WAV' }
-  if (startsWith(bytes, ascii('OggS'))) return { purpose: 'audio', mime: 'audio/ogg', format: 'Ogg' }
-  if (startsWith(bytes, ascii('ID3')) || startsWithMpegSync(bytes)) return { purpose: 'audio', mime: 'audio/mpeg', format: 'MP3' }
-  return null
+/**
+ * What the bytes are, by their content alone (file-type's signatures): the declared type and the extension
+ * are not trusted. `found` is file-type's answer even for a kind we do not take, to name it in a refusal.
+ */
+export async function sniffFile(bytes: Uint8Array): Promise<{ taken: Sniffed | null, found: string | null }> {
+  const type = await fileTypeFromBuffer(bytes).catch(() => undefined)
+  const taken = type ? takenKinds[type.ext] ?? null : startsLikeMp3(bytes) ? takenKinds.mp3! : null
+  return { taken, found: type ? type.ext.toUpperCase() : null }
 }
 
-function describeRefused(bytes: Uint8Array): string {
+function describeRefused(bytes: Uint8Array, { taken, found }: { taken: Sniffed | null, found: string | null }): string {
   const head = Buffer.from(bytes.subarray(0, 512)).toString('utf8').trimStart().toLowerCase()
   if (head.includes('<svg') || (head.startsWith('<?xml') && head.includes('svg'))) return 'an SVG drawing (SVG is refused: it can carry scripts)'
   if (head.startsWith('<')) return 'HTML or XML text'
   if (head.startsWith('#!')) return 'a script'
-  if (sniffFile(bytes)) return `a ${sniffFile(bytes)!.format} file`
+  if (taken) return `a ${taken.format} file`
+  if (found) return `a file of type ${found}`
   return 'of a kind we do not take'
 }
 
@@ -250,8 +265,9 @@ export async function receiveUpload(event: H3Event, purpose: UploadPurpose, user
   const { file } = await readUploadForm(event, purpose, { required: 'choose a file to upload' })
   const part = file!
 
-  const sniffed = sniffFile(part.data)
-  if (!sniffed || sniffed.purpose !== purpose) throw unsupported(purpose, describeRefused(part.data))
+  const kind = await sniffFile(part.data)
+  const sniffed = kind.taken
+  if (!sniffed || sniffed.purpose !== purpose) throw unsupported(purpose, describeRefused(part.data, kind))
   if (purpose === 'audio') checkAudioSample(part.data, sniffed.mime)
   const prepared: Prepared = purpose === 'photo' ? await reencodePhoto(part.data) : { data: part.data, mime: sniffed.mime }
   const extension = prepared.mime.split('/')[1]!.replace('mpeg', 'mp3')
@@ -499,29 +515,25 @@ export async function readStoredFile(id: string): Promise<Buffer | null> {
   return raw ? Buffer.from(raw) : null
 }
 
-/** One `bytes=` range of a file of `size` bytes; null to send the whole file; 'unsatisfiable' for 416. */
+/**
+ * One `bytes=` range of a file of `size` bytes (range-parser); null to send the whole file (no header, a
+ * malformed one, another unit, or several ranges, which the standard allows); 'unsatisfiable' for 416.
+ */
 export function parseByteRange(header: string | undefined, size: number): { start: number, end: number } | 'unsatisfiable' | null {
   if (!header) return null
-  const match = /^bytes=(\d*)-(\d*)$/.exec(header.trim())
-  // Several ranges or another unit: the whole file, which the standard allows.
-  if (!match) return null
-  const [, from = '', to = ''] = match
-  if (from === '' && to === '') return null
-  if (from === '') {
-    const suffix = Number(to)
-    if (suffix === 0) return 'unsatisfiable'
-    return { start: Math.max(0, size - suffix), end: size - 1 }
+  const ranges = parseRange(size, header.trim())
+  if (ranges === -2) return null
+  if (ranges === -1) {
+    // A suffix longer than the file asks for all of it (RFC 9110, 14.1.2); range-parser calls it unsatisfiable.
+    return size > 0 && /^bytes=-0*[1-9]\d*$/.test(header.trim()) ? { start: 0, end: size - 1 } : 'unsatisfiable'
   }
-  const start = Number(from)
-  const end = to === '' ? size - 1 : Math.min(Number(to), size - 1)
-  if (start >= size || end < start) return 'unsatisfiable'
-  return { start, end }
+  if (ranges.type !== 'bytes' || ranges.length !== 1) return null
+  return { start: ranges[0]!.start, end: ranges[0]!.end }
 }
 
 /** Content-Disposition with the file's label, safe for the header in ASCII and exact in UTF-8. */
 export function inlineDisposition(label: string): string {
-  const plain = label.replace(/[^\x20-\x7E]/g, '_').replace(/["\\]/g, '_')
-  return `inline; filename="${plain}"; filename*=UTF-8''${encodeURIComponent(label)}`
+  return contentDisposition(label, { type: 'inline' })
 }
 
 /**

@@ -120,9 +120,9 @@ export const testCutFieldsSchema = z.object({
 })
 
 /** Analyses a test-cut WAV like a surface test; a file we cannot read is a 4xx naming the file. */
-export function analyseTestCut(bytes: Uint8Array, rpm: number, thresholds: SurfaceThresholds): SurfaceAnalysis {
-  const sniffed = sniffFile(bytes)
-  if (sniffed?.mime !== 'audio/wav') {
+export async function analyseTestCut(bytes: Uint8Array, rpm: number, thresholds: SurfaceThresholds): Promise<SurfaceAnalysis> {
+  const { taken } = await sniffFile(bytes)
+  if (taken?.mime !== 'audio/wav') {
     throw createError({ statusCode: 415, statusMessage: 'Unsupported Media Type', message: 'file: a test cut is analysed from a WAV recording; this file is not one.', data: { fields: { file: 'only WAV recordings' } } })
   }
   try {

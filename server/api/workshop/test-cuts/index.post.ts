@@ -18,7 +18,7 @@ export default defineEventHandler(async (event) => {
   const recorder = await findRecorder(db, input.recorderId)
   // Checked before the analysis too, so a refused blank costs no work; the locked check below decides.
   if (input.blankCode) await blankForTestCut(db, input.blankCode)
-  const analysis = analyseTestCut(file.data, input.rpm, await testCutThresholds(db))
+  const analysis = await analyseTestCut(file.data, input.rpm, await testCutThresholds(db))
   const cut = await db.transaction(async (tx) => {
     const blank = input.blankCode ? await blankForTestCut(tx, input.blankCode, true) : null
     const stored = await storeTestCut(tx, {

@@ -21,7 +21,7 @@ export default defineEventHandler(async (event) => {
   if (!recorder.inService) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `recorderId: ${recorder.name} is out of service; choose a recorder in service.`, data: { fields: { recorderId: 'out of service' } } })
   const [product] = await db.select({ rpm: products.rpm }).from(tickets).innerJoin(orderItems, eq(orderItems.id, tickets.orderItemId))
     .innerJoin(products, eq(products.id, orderItems.productId)).where(eq(tickets.id, id))
-  const analysis = upload?.file ? analyseTestCut(upload.file.data, product?.rpm ?? 160, await testCutThresholds(db)) : null
+  const analysis = upload?.file ? await analyseTestCut(upload.file.data, product?.rpm ?? 160, await testCutThresholds(db)) : null
   const cutAt = input.cutAt ? new Date(input.cutAt) : new Date()
 
   return await db.transaction(async (tx) => {
