@@ -3,6 +3,9 @@ export type FieldKind = 'text' | 'length' | 'decimal' | 'whole' | 'date' | 'emai
 
 export interface FieldOption { value: string, label: string }
 
+/** One choice of a `<UiFilterBar>`, kept in the URL's query under `name`; `fallback` shows when it is not there. */
+export interface QueryFilter { name: string, label: string, id: string, options: FieldOption[], fallback?: string }
+
 /**
  * One field of a form, as data: `<UiFieldGrid>` draws a list of them with their labels, hints and the
  * server's message for each. `key` is the form's own name for the value; `name` (the same unless given)
