@@ -105,7 +105,7 @@ async function sendUpload(client: Client, path: string, fields: Record<string, u
   return response.status
 }
 
-const uploadRoutes = /uploads\/(photo|audio)|surface-tests(\/analyse)?$|test-cuts$|\/cut$/
+const uploadRoutes = /uploads\/(photo|audio)|surface-tests(\/analyse)?$|test-cuts$|\/cut$|\/claims$/
 
 describe('fuzzing every route', () => {
   it('answers every hostile request below 500, drops no connection, and stays up', async () => {
