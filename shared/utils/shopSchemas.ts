@@ -13,11 +13,19 @@ export const cartItemsField = z.array(cartItemSchema, { error: 'items must be a 
   .max(30, 'items: at most 30 different items in one order')
   .refine(items => new Set(items.map(item => item.slug)).size === items.length, 'items: each product may appear once (use qty)')
 
+/** The cart's lines beside personal messages: an empty list is the same as none (the cart may hold only messages). */
+const itemsBesideMessages = z.preprocess(value => (Array.isArray(value) && value.length === 0 ? undefined : value), cartItemsField.optional())
+const atLeastOneLine = [
+  (body: { items?: unknown[] | undefined, customMessages?: unknown[] | undefined }) => (body.items?.length ?? 0) + (body.customMessages?.length ?? 0) > 0,
+  { message: 'items: the cart is empty', path: ['items'] },
+] as const
+
 export const cartQuoteSchema = z.object({
-  items: cartItemsField,
+  items: itemsBesideMessages,
+  customMessages: customMessagesField.optional(),
   zone: z.string().trim().max(60).optional(),
   taxRegion: z.string().trim().max(60).optional(),
-})
+}).refine(...atLeastOneLine)
 
 const addressText = (field: string, max = 120) => z.string({ error: issue => (issue.input === undefined ? `${field} is required` : `${field} must be text`) })
   .trim().min(1, `${field} is required`).max(max, `${field} is too long`)
@@ -34,7 +42,7 @@ export const shippingAddressSchema = z.object({
 
 export const checkoutSchema = z.object({
   // Cylinders from the cart, personal messages to order, or both.
-  items: cartItemsField.optional(),
+  items: itemsBesideMessages,
   customMessages: customMessagesField.optional(),
   email: z.string({ error: 'email is required' }).trim().max(254, 'email is too long').pipe(z.email({ error: 'email is not a valid address' })).transform(v => v.toLowerCase()),
   shippingAddress: shippingAddressSchema,
@@ -45,7 +53,7 @@ export const checkoutSchema = z.object({
   // Made by the browser for one press of "Go to payment" (kept while the cart and form stay the same),
   // so a doubled or retried request finds the order the first one made instead of holding stock twice.
   checkoutKey: z.string({ error: 'checkoutKey must be text' }).regex(/^[A-Za-z0-9_-]{16,80}$/, 'checkoutKey must be 16 to 80 letters, digits, "-" or "_"').optional(),
-}).refine(body => (body.items?.length ?? 0) + (body.customMessages?.length ?? 0) > 0, { message: 'items: the cart is empty', path: ['items'] })
+}).refine(...atLeastOneLine)
 
 export type CartItemInput = z.infer<typeof cartItemSchema>
 export type CheckoutInput = z.infer<typeof checkoutSchema>

@@ -428,6 +428,20 @@ describe('a personal message from checkout to approval', () => {
     expect(after.recutsUsed).toBe(2)
   })
 
+  it('the cart page\'s quote prices messages beside cylinders; a cart of messages only (items: []) quotes and checks out', async () => {
+    const quote = await new Client().post('/api/cart/quote', { items: [], customMessages: [message({ format: 'four_minute' })], zone: 'domestic' })
+    expect(quote.status, JSON.stringify(quote.body)).toBe(200)
+    expect(quote.body.messageLines).toEqual([expect.objectContaining({ kind: 'custom', title: 'Personal message — Birthday for Ada Thornbury', unitPriceMinor: 6500 + 1500 })])
+    expect(quote.body.subtotalMinor).toBe(8000)
+    expect(quote.body.totalMinor).toBe(8000 + 1200)
+    const refused = await new Client().post('/api/cart/quote', { items: [], customMessages: [message({ wishedDate: dateIn(1) })] })
+    expect(refused.status).toBe(400)
+    expect(refused.body.data.fields).toHaveProperty('customMessages.0.wishedDate')
+    expect((await new Client().post('/api/cart/quote', { items: [] })).status).toBe(400)
+    const created = await collector.post('/api/checkout', { ...checkoutBody([message()]), items: [] })
+    expect(created.status, JSON.stringify(created.body)).toBe(201)
+  })
+
   it('a message and a cylinder check out together: one parcel, shipping for two cylinders', async () => {
     const answer = await collector.post('/api/checkout', { ...checkoutBody([message()]), items: [{ slug: 'plain-blank-2-minute-stearic-acid', qty: 1 }] })
     expect(answer.status, JSON.stringify(answer.body)).toBe(201)

@@ -4,7 +4,9 @@ import type { CustomMessageOrder } from '../../../shared/utils/customSchemas'
 import type { EngineSettings } from '../../../shared/utils/engineSettings'
 import type { MessageQuote } from '../../../shared/utils/messageQuote'
 import type { Database, Transaction } from '../platform/db'
-import type { QuoteLine, quoteCart } from '../shop/cart'
+import type { CartItemInput } from '../../../shared/utils/shopSchemas'
+import type { QuoteLine } from '../shop/cart'
+import { quoteCart } from '../shop/cart'
 
 type Db = Database | Transaction
 type CartQuote = Awaited<ReturnType<typeof quoteCart>>
@@ -180,4 +182,16 @@ export async function orderMessages(db: Db, order: { id: number, number: string,
       audioUrl: proof.fileId ? proofAudioUrl(order.number, proof.id, order.userId === null) : null,
     })),
   }))
+}
+
+/**
+ * The cart page's quote: the cart's lines at today's prices with the personal messages beside them,
+ * each quoted again as the checkout will (a message the checkout would refuse is a 400 here already).
+ */
+export async function quoteCartWithMessages(db: Database, input: { items?: CartItemInput[] | undefined, customMessages?: CustomMessageOrder[] | undefined, zone?: string | undefined, taxRegion?: string | undefined }, userId: number | null) {
+  return await db.transaction(async (tx) => {
+    const settings = await getSetting('engine', tx)
+    const messages = await prepareCheckoutMessages(tx, input.customMessages ?? [], userId, settings)
+    return quoteWithMessages(await quoteCart(tx, { ...input, items: input.items ?? [] }), messages, settings)
+  })
 }
