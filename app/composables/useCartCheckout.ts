@@ -49,6 +49,12 @@ export function useCartCheckout() {
     }
     catch (error) {
       quoteError.value = (error as { data?: { message?: string } }).data?.message ?? 'The prices could not be checked just now.'
+      // A personal message the quote refuses (a wished-for date now too near) is marked on its own line.
+      const fields = (error as { data?: { data?: { fields?: Record<string, string> } } }).data?.data?.fields ?? {}
+      if (Object.keys(fields).some(key => key.startsWith('customMessages.'))) {
+        errors.take(error)
+        quoteError.value = 'A personal message below cannot be made as it is: remove it and write it again on the messages page.'
+      }
     }
   }
 

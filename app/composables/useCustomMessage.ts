@@ -1,5 +1,5 @@
 import type { UploadLimit } from '#shared/utils/catalogueSchemas'
-import type { CylinderFormat } from '#shared/utils/cylinder'
+import { standardCylinderRpm, type CylinderFormat } from '#shared/utils/cylinder'
 import type { CartMessage } from '~/stores/cart'
 
 export type FitVerdict = 'fits' | 'tight' | 'too_long'
