@@ -1,5 +1,5 @@
 import { asc, desc, eq } from 'drizzle-orm'
-import { blankLog, blanks, orders, recorders, surfaceTests, testCuts, tickets, users, waxBatches } from '../../db/schema'
+import { blankLog, orders, recorders, surfaceTests, testCuts, tickets, users, waxBatches } from '../../db/schema'
 import type { Database } from '../platform/db'
 
 /**
@@ -9,10 +9,9 @@ import type { Database } from '../platform/db'
  */
 export async function blankDossier(db: Database, code: string) {
   const settings = await getSetting('engine', db)
-  const [found] = await db.select({ blank: blanks, batch: waxBatches }).from(blanks)
-    .innerJoin(waxBatches, eq(waxBatches.id, blanks.batchId)).where(eq(blanks.code, code)).limit(1)
-  if (!found) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `No blank has the code ${code}.` })
-  const { blank, batch } = found
+  const blank = await findBlankByCode(db, code)
+  // Every blank is poured from a batch (a foreign key), so the batch is there.
+  const batch = (await db.select().from(waxBatches).where(eq(waxBatches.id, blank.batchId)))[0]!
 
   const log = await db.select({ entry: blankLog, by: users.name }).from(blankLog)
     .leftJoin(users, eq(users.id, blankLog.byUserId)).where(eq(blankLog.blankId, blank.id)).orderBy(asc(blankLog.at), asc(blankLog.id))
@@ -31,7 +30,6 @@ export async function blankDossier(db: Database, code: string) {
   const reshaves = ofKind<BlankReshaveLogData>('reshave')
 
   const { minimumDiameterIn, depthPerSurfaceIn } = settings.shaving
-  const holding = ticketRows.find(ticket => ticket.stage !== 'done')
   const lastReading = reamings.at(-1)?.overhangAfterIn
   const nextReaming = (blank.state === 'cast' || blank.state === 'reamed') && lastReading !== undefined ? reamingPlan({ overhangIn: lastReading }, settings) : null
   const nextShaving = blank.diameterIn !== null && blank.diameterIn > 0 && !['reserved', 'cut', 'shipped', 'scrapped'].includes(blank.state)
@@ -54,7 +52,7 @@ export async function blankDossier(db: Database, code: string) {
     },
     batch: { id: batch.id, code: batch.code, formula: batch.formula, pourDate: batch.pourDate },
     shop: { minimumDiameterIn, depthPerSurfaceIn, targetOverhangIn: settings.reaming.targetOverhangIn, referenceTemperatureF: settings.fit.referenceTemperatureF },
-    holder: holding ? { ticketId: holding.id, orderNumber: holding.orderNumber } : null,
+    holder: await blankHolderOf(db, blank.id),
     reamings,
     shavings,
     reshaves,

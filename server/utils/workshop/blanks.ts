@@ -25,28 +25,33 @@ export function blankCodeParam(event: H3Event): string {
   return paramsWith(event, blankCodeParamsSchema).code
 }
 
-function noSuchBlank(code: string) {
-  return createError({ statusCode: 404, statusMessage: 'Not found', message: `No blank has the code ${code}.` })
+function noSuchBlank(code: string, field?: string) {
+  if (!field) return createError({ statusCode: 404, statusMessage: 'Not found', message: `No blank has the code ${code}.` })
+  return createError({ statusCode: 404, statusMessage: 'Not found', message: `${field}: no blank in the register has the code ${code}.`, data: { fields: { [field]: 'no such blank' } } })
 }
 
-export async function findBlankByCode(db: Database | Transaction, code: string): Promise<BlankRow> {
-  const [blank] = await db.select().from(blanks).where(eq(blanks.code, code)).limit(1)
-  if (!blank) throw noSuchBlank(code)
+/**
+ * The one lookup of a blank by its code; a 404 when there is none (naming `field` when the code came from
+ * a form field rather than the address). With `lock` (inside a transaction) the row stays locked to its
+ * end, so two changes to the blank queue rather than interleave.
+ */
+export async function findBlankByCode(db: Database | Transaction, code: string, options: { lock?: boolean, field?: string } = {}): Promise<BlankRow> {
+  const query = db.select().from(blanks).where(eq(blanks.code, code))
+  const [blank] = options.lock ? await query.for('update').limit(1) : await query.limit(1)
+  if (!blank) throw noSuchBlank(code, options.field)
   return blank
 }
 
 /** The blank, locked for the rest of the transaction so two changes to it queue rather than interleave. */
 export async function lockBlankByCode(tx: Transaction, code: string): Promise<BlankRow> {
-  const [blank] = await tx.select().from(blanks).where(eq(blanks.code, code)).for('update').limit(1)
-  if (!blank) throw noSuchBlank(code)
-  return blank
+  return await findBlankByCode(tx, code, { lock: true })
 }
 
-/** The open ticket (any stage but done) holding the blank, if one does. */
-export async function blankHolderOf(db: Database | Transaction, blankId: number): Promise<BlankHolder | null> {
+/** The one query for "which open ticket (any stage but done, other than `exceptTicketId`) holds this blank". */
+export async function blankHolderOf(db: Database | Transaction, blankId: number, exceptTicketId?: number): Promise<BlankHolder | null> {
   const [holder] = await db.select({ ticketId: tickets.id, orderNumber: orders.number })
     .from(tickets).innerJoin(orders, eq(orders.id, tickets.orderId))
-    .where(and(eq(tickets.blankId, blankId), ne(tickets.stage, 'done'))).limit(1)
+    .where(and(eq(tickets.blankId, blankId), ne(tickets.stage, 'done'), exceptTicketId ? ne(tickets.id, exceptTicketId) : undefined)).limit(1)
   return holder ?? null
 }
 

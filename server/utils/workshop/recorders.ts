@@ -168,9 +168,7 @@ export async function findRecorder(db: Db, id: number): Promise<Recorder> {
  * between this check and the move to `cut`.
  */
 export async function blankForTestCut(db: Db, code: string, lock = false): Promise<typeof blanks.$inferSelect> {
-  const found = db.select().from(blanks).where(eq(blanks.code, code))
-  const [blank] = lock ? await found.for('update').limit(1) : await found.limit(1)
-  if (!blank) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `blankCode: no blank in the register has the code ${code}.`, data: { fields: { blankCode: 'no such blank' } } })
+  const blank = await findBlankByCode(db, code, { lock, field: 'blankCode' })
   const holder = await blankHolderOf(db, blank.id)
   const refusal = blankActionRefusal('testCut', blank.state, holder)
   if (refusal) {
