@@ -5,6 +5,8 @@ import type { Database, Transaction } from '../platform/db'
 
 export type Order = typeof orders.$inferSelect
 type OrderStatusValue = Order['status']
+/** An order row this transaction holds locked: read `for update`, or just written by it. */
+type LockedOrder = Pick<Order, 'id' | 'status'>
 
 /** A guest's key to their order page, sent in their confirmation mail: an HMAC of the order number. */
 export function orderAccessToken(orderNumber: string): string {
@@ -27,10 +29,15 @@ export function orderLink(orderNumber: string, signedIn: boolean): string {
 /**
  * Moves an order from one of `from` to `to` with a conditional update, so a repeated or late event
  * finds nothing to do. Returns the updated order, or null when the order was not in a `from` state.
+ * Given the order's id, it reads and locks the row first; given the row itself, the caller has already
+ * read it `for update` (or written it) in this transaction, and it is not read again.
  */
-export async function moveOrder(tx: Database | Transaction, orderId: number, from: OrderStatusValue[], to: OrderStatusValue, extra: Partial<Order> = {}, note?: string, actorUserId?: number) {
-  const [current] = await tx.select({ status: orders.status }).from(orders).where(eq(orders.id, orderId)).for('update')
+export async function moveOrder(tx: Database | Transaction, order: number | LockedOrder, from: OrderStatusValue[], to: OrderStatusValue, extra: Partial<Order> = {}, note?: string, actorUserId?: number) {
+  const [current] = typeof order === 'number'
+    ? await tx.select({ id: orders.id, status: orders.status }).from(orders).where(eq(orders.id, order)).for('update')
+    : [order]
   if (!current || !from.includes(current.status)) return null
+  const orderId = current.id
   const [updated] = await tx.update(orders).set({ ...extra, status: to, updatedAt: new Date() })
     .where(and(eq(orders.id, orderId), eq(orders.status, current.status))).returning()
   if (!updated) return null
@@ -54,9 +61,9 @@ export async function returnStock(tx: Database | Transaction, orderId: number) {
  * An unpaid order whose payment failed or expired (or that was given up): cancelled, and its stock is
  * for sale again. Its checkout key is let go, so the same browser may check out afresh.
  */
-export async function releaseReservation(tx: Database | Transaction, orderId: number, note: string, actorUserId?: number) {
-  const cancelled = await moveOrder(tx, orderId, ['awaiting_payment'], 'cancelled', { checkoutKey: null }, note, actorUserId)
-  if (cancelled) await returnStock(tx, orderId)
+export async function releaseReservation(tx: Database | Transaction, order: number | LockedOrder, note: string, actorUserId?: number) {
+  const cancelled = await moveOrder(tx, order, ['awaiting_payment'], 'cancelled', { checkoutKey: null }, note, actorUserId)
+  if (cancelled) await returnStock(tx, cancelled.id)
   return cancelled
 }
 
@@ -149,8 +156,11 @@ export async function orderWithItems(db: Database | Transaction, orderId: number
   return { order, items }
 }
 
-export async function queueOrderConfirmation(tx: Database | Transaction, orderId: number) {
-  const found = await orderWithItems(tx, orderId)
+/** The paid order's confirmation mail; given the row (as the payment that paid it wrote it), it is not read again. */
+export async function queueOrderConfirmation(tx: Database | Transaction, paidOrder: number | Order) {
+  const found = typeof paidOrder === 'number'
+    ? await orderWithItems(tx, paidOrder)
+    : { order: paidOrder, items: await tx.select().from(orderItems).where(eq(orderItems.orderId, paidOrder.id)) }
   if (!found) return
   const { order, items } = found
   const money = (minor: number) => formatMoney(minor, order.currency)

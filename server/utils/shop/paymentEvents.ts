@@ -12,14 +12,18 @@ interface Handled {
   followUp?: () => Promise<unknown>
 }
 
+/**
+ * The order an event names, read once and locked for the rest of the event's transaction: what the event
+ * does is decided on this row and the row is passed along (moves, mails, tickets), never read again.
+ */
 async function findOrder(tx: Transaction, by: { number?: string | null, paymentIntent?: string | null }) {
   // Metadata is whatever the sender wrote: only a string can name an order.
   if (typeof by.number === 'string' && by.number) {
-    const [order] = await tx.select().from(orders).where(eq(orders.number, by.number))
+    const [order] = await tx.select().from(orders).where(eq(orders.number, by.number)).for('update')
     if (order) return order
   }
   if (typeof by.paymentIntent === 'string' && by.paymentIntent) {
-    const [order] = await tx.select().from(orders).where(eq(orders.paymentIntentId, by.paymentIntent))
+    const [order] = await tx.select().from(orders).where(eq(orders.paymentIntentId, by.paymentIntent)).for('update')
     if (order) return order
   }
   return null
@@ -82,18 +86,20 @@ export async function settlePaidSession(tx: Transaction, session: Stripe.Checkou
   const mismatch = sessionMismatch(session, order)
   if (mismatch) return ignore(mismatch, order.id)
   const paymentIntent = intentId(session.payment_intent)
-  const paid = await moveOrder(tx, order.id, ['awaiting_payment'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent })
+  const paid = await moveOrder(tx, order, ['awaiting_payment'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent })
   if (paid) {
-    await queueOrderConfirmation(tx, order.id)
-    await createTicketsForOrder(tx, order.id)
+    await queueOrderConfirmation(tx, paid)
+    await createTicketsForOrder(tx, paid)
     return { outcome: 'paid', orderId: order.id }
   }
   if (order.status !== 'cancelled' || order.paidAt !== null) return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
   // The money came after the hold ran out: take the stock again if all of it is still there, else refund.
   if (await reReserveStock(tx, order.id)) {
-    await moveOrder(tx, order.id, ['cancelled'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent }, 'Payment arrived after the hold ran out; the stock was still there.')
-    await queueOrderConfirmation(tx, order.id)
-    await createTicketsForOrder(tx, order.id)
+    const paidLate = await moveOrder(tx, order, ['cancelled'], 'paid', { paidAt: new Date(), paymentIntentId: paymentIntent }, 'Payment arrived after the hold ran out; the stock was still there.')
+    if (paidLate) {
+      await queueOrderConfirmation(tx, paidLate)
+      await createTicketsForOrder(tx, paidLate)
+    }
     return { outcome: 'paid late', orderId: order.id }
   }
   await tx.update(orders).set({ paymentIntentId: paymentIntent, paidAt: new Date() }).where(eq(orders.id, order.id))
@@ -124,7 +130,7 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       if (!order) return ignore(NO_ORDER)
       const mismatch = sessionMismatch(session, order)
       if (mismatch) return ignore(mismatch, order.id)
-      const released = await releaseReservation(tx, order.id, 'The payment page expired unpaid.')
+      const released = await releaseReservation(tx, order, 'The payment page expired unpaid.')
       return { outcome: released ? 'released' : `ignored: order is ${order.status}`, orderId: order.id }
     }
     case 'payment_intent.payment_failed': {
@@ -234,7 +240,7 @@ async function applyRefunds(tx: Transaction, order: OrderRow, amountRefunded: nu
     .set({ refundedMinor: sql`least(${orders.totalMinor}, greatest(${orders.refundedMinor}, ${amountRefunded}))`, updatedAt: new Date() })
     .where(eq(orders.id, order.id)).returning({ refundedMinor: orders.refundedMinor, totalMinor: orders.totalMinor })
   if (updated && updated.refundedMinor >= updated.totalMinor) {
-    await moveOrder(tx, order.id, ['paid', 'in_production', 'proof_pending', 'ready_to_pack', 'packed', 'shipped', 'delivered', 'cancelled'], 'refunded', {}, 'Refunded in full.')
+    await moveOrder(tx, order, ['paid', 'in_production', 'proof_pending', 'ready_to_pack', 'packed', 'shipped', 'delivered', 'cancelled'], 'refunded', {}, 'Refunded in full.')
     await closeTicketsOfRefundedOrder(tx, order.id)
     return 'refunded in full'
   }

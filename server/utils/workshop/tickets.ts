@@ -41,11 +41,13 @@ export async function logTicketEvent(tx: Db, ticketId: number, from: TicketStage
 /**
  * Opens one ticket per cylinder to make (each unit of each made-to-order or custom item) for a
  * paid order, and moves the order from paid to in production. Idempotent: the unique (item, unit)
- * index skips tickets that exist. An unpaid order gets none.
+ * index skips tickets that exist. An unpaid order gets none. Given the row the payment just wrote, the
+ * order is not read again; given its id, it is read and locked.
  */
-export async function createTicketsForOrder(tx: Db, orderId: number): Promise<number> {
-  const [order] = await tx.select().from(orders).where(eq(orders.id, orderId))
+export async function createTicketsForOrder(tx: Db, paidOrder: number | Order): Promise<number> {
+  const [order] = typeof paidOrder === 'number' ? await tx.select().from(orders).where(eq(orders.id, paidOrder)).for('update') : [paidOrder]
   if (!order || !order.paidAt || !['paid', 'in_production'].includes(order.status)) return 0
+  const orderId = order.id
   const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
   const toMake = items.filter(item => item.madeToOrder || item.kind === 'custom')
   if (toMake.length === 0) return 0
@@ -59,7 +61,7 @@ export async function createTicketsForOrder(tx: Db, orderId: number): Promise<nu
   const created = await tx.insert(tickets).values(rows).onConflictDoNothing({ target: [tickets.orderItemId, tickets.unit] }).returning({ id: tickets.id })
   for (const ticket of created) await logTicketEvent(tx, ticket.id, null, 'queued', `Opened for paid order ${order.number}.`, null)
   if (messageDue.size > 0) await queueMessagesReceivedMail(tx, orderId)
-  await moveOrder(tx, orderId, ['paid'], 'in_production', {}, `${rows.length} cylinder(s) to cut: production ticket(s) opened.`)
+  await moveOrder(tx, order, ['paid'], 'in_production', {}, `${rows.length} cylinder(s) to cut: production ticket(s) opened.`)
   return created.length
 }
 
@@ -88,11 +90,8 @@ export async function latestCurrentSurfaceTest(db: Db, blank: Pick<Blank, 'id' |
 
 /** The open ticket (other than `exceptTicketId`) that holds a blank, with its order number. */
 export async function openTicketHoldingBlank(db: Db, blankId: number, exceptTicketId?: number) {
-  const [holder] = await db.select({ id: tickets.id, orderNumber: orders.number }).from(tickets)
-    .innerJoin(orders, eq(orders.id, tickets.orderId))
-    .where(and(eq(tickets.blankId, blankId), ne(tickets.stage, 'done'), exceptTicketId ? ne(tickets.id, exceptTicketId) : undefined))
-    .limit(1)
-  return holder ?? null
+  const holder = await blankHolderOf(db, blankId, exceptTicketId)
+  return holder ? { id: holder.ticketId, orderNumber: holder.orderNumber } : null
 }
 
 /**
@@ -172,8 +171,7 @@ export async function assignBlankToTicket(db: Database, ticketId: number, blankC
       const kind = await ticketKindById(tx, ticket)
       const problem = ticketMoveProblem({ id: ticket.id, stage: ticket.stage, kind }, 'blank_assigned', order!.status, 'assign')
       if (problem) throw conflictError(problem)
-      const [blank] = await tx.select().from(blanks).where(eq(blanks.code, blankCode))
-      if (!blank) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `blankCode: no blank in the register has the code ${blankCode}.`, data: { fields: { blankCode: 'no such blank' } } })
+      const blank = await findBlankByCode(tx, blankCode, { field: 'blankCode' })
       blankId = blank.id
       const refusal = await blankRefusal(tx, ticket, blank)
       if (refusal) throw conflictError(refusal)
