@@ -1,5 +1,6 @@
 import { createHmac } from 'node:crypto'
 import { mkdtempSync, readdirSync } from 'node:fs'
+import { connect } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { url } from '@nuxt/test-utils/e2e'
@@ -384,6 +385,33 @@ describe('breakage claims', () => {
     const wrongItem = await multipart(customer, `/api/orders/${number}/claims`, [{ field: 'photos', name: 'a.png', bytes: png }], { description: 'The cylinder is cracked.', itemIds: '1,999999' })
     expect(wrongItem.body.data.fields).toHaveProperty('itemIds')
     expect(await claimCount()).toBe(claims)
+  })
+
+  it('more than 6 photos is a 400 naming photos; a declared size over 6 × 8 MB is a 413 before the body is read', async () => {
+    const seven = Array.from({ length: 7 }, (_, i) => ({ field: 'photos', name: `p${i}.png`, bytes: png, type: 'image/png' }))
+    const many = await multipart(customer, `/api/orders/${number}/claims`, seven, { description: 'Seven views of the same crack.' })
+    expect(many.status).toBe(400)
+    expect(many.body.data.fields.photos).toMatch(/at most 6/)
+    // Only the head of the request is sent: the server must answer from the declared length alone.
+    const target = new URL(url(`/api/orders/${number}/claims`))
+    const cookie = [...customer.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+    const head = await new Promise<string>((resolve, reject) => {
+      const socket = connect(Number(target.port), target.hostname, () => {
+        socket.write([`POST ${target.pathname} HTTP/1.1`, `Host: ${target.host}`, `Origin: ${target.origin}`, `Cookie: ${cookie}`, 'Accept: application/json',
+          'Content-Type: multipart/form-data; boundary=x', `Content-Length: ${6 * 8 * 1024 * 1024 + 70 * 1024}`, '', ''].join('\r\n'))
+      })
+      let text = ''
+      socket.on('data', (chunk) => {
+        text += chunk.toString('utf8')
+        if (text.includes('\r\n\r\n')) {
+          socket.destroy()
+          resolve(text)
+        }
+      })
+      socket.on('error', reject)
+      setTimeout(() => reject(new Error('no answer to the oversized upload')), 10_000)
+    })
+    expect(head).toMatch(/^HTTP\/1\.1 413/)
   })
 
   it('another customer\'s order is 404; the owner files a claim with photos; the maker and the customer are mailed; the photos are theirs alone', async () => {
