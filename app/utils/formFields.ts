@@ -14,6 +14,8 @@ export interface QueryFilter { name: string, label: string, id: string, options:
 export interface FieldSpec {
   key: string
   name?: string
+  /** The name the server's message for it comes under, where that is not `name` (e.g. price → priceMinor). */
+  errorName?: string
   label: string
   hint?: string
   required?: boolean
