@@ -2,7 +2,7 @@ import { asc, eq } from 'drizzle-orm'
 import { blanks, customMessages, orderItems, orders, products, tickets } from '../../db/schema'
 import type { ShippingAddress } from '../../db/schema'
 import type { Database } from '../platform/db'
-import type { CylinderFormat } from '#shared/utils/cylinder'
+import { cylinderFormats, standardCylinderRpm, type CylinderFormat } from '#shared/utils/cylinder'
 import { parcelAddressLines, code128Png, code128Width, dispatchPdfBuffer, dispatchPdfFonts, drawCode128, newDispatchPdf, qrPng } from './pdf'
 
 /*
