@@ -15,17 +15,15 @@ export const cartItemsField = z.array(cartItemSchema, { error: 'items must be a 
 
 /** The cart's lines beside personal messages: an empty list is the same as none (the cart may hold only messages). */
 const itemsBesideMessages = z.preprocess(value => (Array.isArray(value) && value.length === 0 ? undefined : value), cartItemsField.optional())
-const atLeastOneLine = [
-  (body: { items?: unknown[] | undefined, customMessages?: unknown[] | undefined }) => (body.items?.length ?? 0) + (body.customMessages?.length ?? 0) > 0,
-  { message: 'items: the cart is empty', path: ['items'] },
-] as const
+const atLeastOneLine = (body: { items?: unknown[] | undefined, customMessages?: unknown[] | undefined }) => (body.items?.length ?? 0) + (body.customMessages?.length ?? 0) > 0
+const emptyCart = { message: 'items: the cart is empty', path: ['items'] }
 
 export const cartQuoteSchema = z.object({
   items: itemsBesideMessages,
   customMessages: customMessagesField.optional(),
   zone: z.string().trim().max(60).optional(),
   taxRegion: z.string().trim().max(60).optional(),
-}).refine(...atLeastOneLine)
+}).refine(atLeastOneLine, emptyCart)
 
 const addressText = (field: string, max = 120) => z.string({ error: issue => (issue.input === undefined ? `${field} is required` : `${field} must be text`) })
   .trim().min(1, `${field} is required`).max(max, `${field} is too long`)
@@ -53,7 +51,7 @@ export const checkoutSchema = z.object({
   // Made by the browser for one press of "Go to payment" (kept while the cart and form stay the same),
   // so a doubled or retried request finds the order the first one made instead of holding stock twice.
   checkoutKey: z.string({ error: 'checkoutKey must be text' }).regex(/^[A-Za-z0-9_-]{16,80}$/, 'checkoutKey must be 16 to 80 letters, digits, "-" or "_"').optional(),
-}).refine(...atLeastOneLine)
+}).refine(atLeastOneLine, emptyCart)
 
 export type CartItemInput = z.infer<typeof cartItemSchema>
 export type CheckoutInput = z.infer<typeof checkoutSchema>

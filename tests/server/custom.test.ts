@@ -388,7 +388,7 @@ describe('a personal message from checkout to approval', () => {
     expect(mailsTo(makerEmail, new RegExp(`^Re-cut asked for — order ${orderNumber}$`))[0]!.text).toContain('A little slower on the name')
   })
 
-  it('a guest answers through the signed link; a paid re-cut is recorded for the maker to invoice; the maker approves only with a reason', async () => {
+  it('a guest answers through the signed link; a re-cut past the free one is paid on its own payment page and made when the payment is confirmed; the maker approves only with a reason', async () => {
     const guest = new Client()
     const created = await guest.post('/api/checkout', checkoutBody([message({ rush: true, wishedDate: dateIn(5), occasion: 'Anniversary' })]))
     expect(created.status, JSON.stringify(created.body)).toBe(201)
@@ -409,11 +409,23 @@ describe('a personal message from checkout to approval', () => {
     expect((await guest.post(`/api/orders/${orderNumber}/proofs/${proof1}/recut`, { note: 'Softer.', t: accessToken })).status).toBe(200)
 
     const proof2 = await cutAndSendProof(ticket.id)
+    const unpaid = await guest.post(`/api/orders/${orderNumber}/proofs/${proof2}/recut?t=${accessToken}`, { note: 'Add "with love".' })
+    expect(unpaid.status).toBe(402)
+    // Agreeing to the price opens a payment page for the fee; nothing changes until it is paid.
     const paid = await guest.post(`/api/orders/${orderNumber}/proofs/${proof2}/recut?t=${accessToken}`, { note: 'Add "with love".', pay: true })
     expect(paid.status, JSON.stringify(paid.body)).toBe(200)
-    expect(paid.body).toMatchObject({ answer: 'recut', paidRecut: true })
+    expect(paid.body).toMatchObject({ answer: 'waiting', paidRecutMinor: 2500, url: expect.any(String) })
+    const session = await fake(`/_fake/sessions`).then(all => all.data.find((row: any) => paid.body.url.endsWith(row.id)))
+    expect(session).toMatchObject({ amount_total: 2500, metadata: { purpose: 'paid_recut', proof_id: String(proof2) } })
+    expect((await ticketOf(orderNumber)).stage).toBe('proof_sent')
+    await fake(`/_fake/sessions/${paid.body.url.split('/').pop()}/complete?wait=true`, {})
+    await waitFor(async () => (await ticketOf(orderNumber)).stage === 'blank_assigned', 10_000, 'the paid re-cut')
+    const recutShown = (await guest.get(`/api/orders/${orderNumber}?t=${accessToken}`)).body.messages[0].proofs
+    expect(recutShown.map((p: any) => [p.id, p.answer, p.answerNote])).toEqual([[proof1, 'recut', 'Softer.'], [proof2, 'recut', 'Add "with love".']])
+    // The order itself is untouched by the fee: still its own total, in production.
+    expect((await guest.get(`/api/orders/${orderNumber}?t=${accessToken}`)).body).toMatchObject({ status: 'in_production', totalMinor: view.body.totalMinor, refundedMinor: 0 })
     await waitFor(async () => mailsTo(account('maker').email, new RegExp(`^Re-cut asked for — order ${orderNumber}$`)).length >= 2, 10_000, 'the second re-cut mail')
-    expect(mailsTo(account('maker').email, new RegExp(`^Re-cut asked for — order ${orderNumber}$`)).map(m => m.text).join('\n')).toMatch(/agreed to pay \$25\.00/)
+    expect(mailsTo(account('maker').email, new RegExp(`^Re-cut asked for — order ${orderNumber}$`)).map(m => m.text).join('\n')).toMatch(/has paid \$25\.00/)
 
     const proof3 = await cutAndSendProof(ticket.id)
     const silent = await maker.post(`/api/workshop/tickets/${ticket.id}/stage`, { to: 'approved' })

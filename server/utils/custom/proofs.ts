@@ -1,4 +1,6 @@
+import { createHash } from 'node:crypto'
 import type { H3Event } from 'h3'
+import type Stripe from 'stripe'
 import { and, eq, isNull, lt } from 'drizzle-orm'
 import { customMessages, files, orderItems, orders, proofs, tickets, users } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
@@ -110,34 +112,97 @@ const alreadyAnswered = (proof: Proof) => conflictError(`This proof has already 
 /**
  * The customer answers a proof, once: approve (the ticket goes to approved and the order on as its
  * tickets say), or ask for a re-cut with a note (the ticket goes back to be cut again, counted). After
- * the shop's free re-cuts, a re-cut is 402 unless the customer agrees to pay (`pay`); a paid re-cut is
- * recorded on the proof and the maker is asked to invoice it. Mails: approved → customer and makers;
- * re-cut → makers.
+ * the shop's free re-cuts, a re-cut is 402 with its price unless the customer agrees to pay (`pay`):
+ * then a payment page for the fee is opened (`{ url }`) and the re-cut is made when the payment's
+ * webhook confirms it (`settlePaidRecut`). Mails: approved → customer and makers; re-cut → makers.
  */
 export async function answerProof(found: Awaited<ReturnType<typeof proofForViewer>>, answer: { kind: 'approved' } | { kind: 'recut', note: string, pay: boolean }) {
   const { order, proof, user } = found
   if (proof.answer !== 'waiting') throw alreadyAnswered(proof)
   const db = await useDB()
   const settings = await getSetting('engine', db)
+  if (answer.kind === 'recut' && answer.pay && found.ticket.recuts >= settings.custom.freeRecuts) {
+    return await openPaidRecutPayment(order, proof, answer.note, settings.custom.paidRecutMinor)
+  }
   return await db.transaction(async (tx) => {
     const { ticket } = await lockTicketForMove(tx, proof.ticketId)
     const [current] = await tx.select().from(proofs).where(eq(proofs.id, proof.id))
     if (!current || current.answer !== 'waiting') throw alreadyAnswered(current ?? proof)
-    let paid = false
     if (answer.kind === 'recut' && ticket.recuts >= settings.custom.freeRecuts) {
+      // Past the free re-cuts (counted under the lock): the customer is told the price and may pay it.
       const price = formatMoney(settings.custom.paidRecutMinor, order.currency)
-      if (!answer.pay) {
-        throw createError({ statusCode: 402, statusMessage: 'Payment Required', message: `You have used your free re-cut${settings.custom.freeRecuts === 1 ? '' : 's'}; a further re-cut costs ${price}.`, data: { paidRecutMinor: settings.custom.paidRecutMinor, currency: order.currency } })
-      }
-      paid = true
+      throw createError({ statusCode: 402, statusMessage: 'Payment Required', message: `You have used your free re-cut${settings.custom.freeRecuts === 1 ? '' : 's'}; a further re-cut costs ${price}.`, data: { paidRecutMinor: settings.custom.paidRecutMinor, currency: order.currency } })
     }
     const note = answer.kind === 'recut' ? answer.note : ''
-    if (!await markAnswered(tx, proof.id, answer.kind, { note, via: 'customer', by: user?.id ?? null, paid })) throw alreadyAnswered(proof)
+    if (!await markAnswered(tx, proof.id, answer.kind, { note, via: 'customer', by: user?.id ?? null })) throw alreadyAnswered(proof)
     const moved = await moveTicketForProof(tx, ticket, answer.kind, answer.kind === 'approved' ? 'The customer approved the proof.' : note, user?.id ?? null)
     if (!moved) throw conflictError('The workshop has moved this message on meanwhile; reload your order to see where it stands.')
-    await queueAnswerMails(tx, order, ticket.orderItemId, proof.id, answer.kind, note, paid ? formatMoney(settings.custom.paidRecutMinor, order.currency) : null)
-    return { id: proof.id, answer: answer.kind, paidRecut: paid, ticketStage: answer.kind === 'approved' ? 'approved' as const : 'blank_assigned' as const }
+    await queueAnswerMails(tx, order, ticket.orderItemId, proof.id, answer.kind, note, null)
+    return { id: proof.id, answer: answer.kind, paidRecut: false, ticketStage: answer.kind === 'approved' ? 'approved' as const : 'blank_assigned' as const }
   })
+}
+
+/** Keys of the payment page's metadata: the service keeps at most 500 characters a value, so the note is split. */
+const NOTE_PART = 480
+
+/**
+ * A payment page for a re-cut past the free ones. Nothing changes until the payment is confirmed: the
+ * proof stays waiting (the customer may still approve it instead). The same proof and note open the
+ * same page (idempotency key).
+ */
+async function openPaidRecutPayment(order: OrderRow, proof: Proof, note: string, amountMinor: number) {
+  const back = orderLink(order.number, order.userId !== null)
+  const noteKey = createHash('sha256').update(note).digest('hex').slice(0, 16)
+  // An empty metadata value means "no such key" to the payment service: only the parts the note fills.
+  const noteParts = Object.fromEntries([0, 1, 2].map(part => [`note_${part + 1}`, note.slice(part * NOTE_PART, (part + 1) * NOTE_PART)]).filter(([, text]) => text !== ''))
+  try {
+    const session = await useStripe().checkout.sessions.create({
+      mode: 'payment',
+      customer_email: order.email,
+      client_reference_id: order.number,
+      metadata: { purpose: 'paid_recut', order_number: order.number, proof_id: String(proof.id), ...noteParts },
+      payment_intent_data: { metadata: { purpose: 'paid_recut', proof_id: String(proof.id) } },
+      line_items: [{ quantity: 1, price_data: { currency: order.currency.toLowerCase(), unit_amount: amountMinor, product_data: { name: `A further re-cut of your personal message (order ${order.number})` } } }],
+      success_url: back,
+      cancel_url: back,
+    }, { idempotencyKey: `recut-${proof.id}-${noteKey}-${amountMinor}` })
+    return { id: proof.id, answer: 'waiting' as const, paidRecut: false, paidRecutMinor: amountMinor, url: session.url }
+  }
+  catch (error) {
+    console.error('[messages] re-cut payment page failed:', error instanceof Error ? error.message : error)
+    throw createError({ statusCode: 502, statusMessage: 'Payment service unavailable', message: 'The payment service could not be reached. Nothing was charged and your proof still waits for your answer; try again in a minute.' })
+  }
+}
+
+/**
+ * The payment service confirms a paid re-cut (webhook or sweep): the proof is answered `recut` (paid),
+ * the ticket goes back to be cut again and the makers are told. The session is read back from the
+ * payment service, so only a real, paid page of this shop for this proof counts; a proof answered
+ * meanwhile is left alone and the outcome says so, for the maker to refund.
+ */
+export async function settlePaidRecut(tx: Transaction, event: Stripe.Checkout.Session): Promise<{ outcome: string, orderId?: number, ignored?: string }> {
+  const ignore = (reason: string, orderId?: number) => ({ outcome: `ignored: ${reason}`, ignored: reason, orderId })
+  const number = event.metadata?.order_number
+  const proofId = Number(event.metadata?.proof_id)
+  if (typeof number !== 'string' || !Number.isSafeInteger(proofId) || proofId < 1 || proofId > 2_147_483_647) return ignore('names no re-cut of this shop')
+  const [order] = await tx.select().from(orders).where(eq(orders.number, number))
+  if (!order) return ignore('names no order of this shop')
+  const [row] = await tx.select({ proof: proofs, ticket: tickets }).from(proofs).innerJoin(tickets, eq(tickets.id, proofs.ticketId))
+    .where(and(eq(proofs.id, proofId), eq(tickets.orderId, order.id)))
+  if (!row) return ignore(`proof ${proofId} is not of order ${order.number}`, order.id)
+  const session = await useStripe().checkout.sessions.retrieve(event.id).catch(() => null)
+  if (!session || session.status !== 'complete' || session.payment_status !== 'paid' || session.metadata?.proof_id !== String(proofId) || session.metadata?.purpose !== 'paid_recut') {
+    return ignore(`session ${JSON.stringify(String(event.id).slice(0, 80))} is not a paid re-cut page of proof ${proofId}`, order.id)
+  }
+  if ((session.currency ?? '').toLowerCase() !== order.currency.toLowerCase()) return ignore(`currency ${JSON.stringify(session.currency)} is not the order's`, order.id)
+  const note = [session.metadata?.note_1, session.metadata?.note_2, session.metadata?.note_3].filter(Boolean).join('') || 'A paid re-cut.'
+  const { ticket } = await lockTicketForMove(tx, row.ticket.id)
+  if (!await markAnswered(tx, proofId, 'recut', { note, via: 'customer', by: order.userId, paid: true })) {
+    return ignore(`proof ${proofId} was answered before the re-cut was paid: refund ${formatMoney(session.amount_total ?? 0, order.currency)}`, order.id)
+  }
+  if (!await moveTicketForProof(tx, ticket, 'recut', note, order.userId)) return ignore(`the ticket of proof ${proofId} had moved on: refund the re-cut`, order.id)
+  await queueAnswerMails(tx, order, ticket.orderItemId, proofId, 'recut', note, `${formatMoney(session.amount_total ?? 0, order.currency)} (paid)`)
+  return { outcome: 'paid re-cut', orderId: order.id }
 }
 
 async function queueAnswerMails(tx: Transaction, order: OrderRow, orderItemId: number, proofId: number, answer: 'approved' | 'recut', note: string, paidPrice: string | null) {
@@ -167,7 +232,7 @@ async function queueAnswerMails(tx: Transaction, order: OrderRow, orderItemId: n
           ? [`The proof of ${words} (order ${order.number}) is approved: the ticket is at "approved" and can go to dispatch.`]
           : [
               `The customer asks for a re-cut of ${words} (order ${order.number}). Their note: ${note}`,
-              ...(paidPrice ? [`This re-cut is past the free ones: the customer agreed to pay ${paidPrice}. Send them an invoice before cutting.`] : []),
+              ...(paidPrice ? [`This re-cut is past the free ones: the customer has paid ${paidPrice} for it.`] : []),
               'The ticket is back at "blank assigned": assign a fresh tested blank, cut again and send a new proof.',
             ],
         action: { label: 'Open the tickets', url: `${site}/workshop/tickets?q=${order.number}` },

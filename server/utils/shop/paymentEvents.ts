@@ -122,6 +122,8 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
     case 'checkout.session.completed': {
       const session = paymentEvent.data.object
       if (session.payment_status !== 'paid') return { outcome: 'not paid yet' }
+      // A re-cut of a personal message paid for on its own page (server/utils/custom/proofs.ts).
+      if (session.metadata?.purpose === 'paid_recut') return await settlePaidRecut(tx, session)
       return await settlePaidSession(tx, session)
     }
     case 'checkout.session.expired': {
