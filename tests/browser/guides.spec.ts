@@ -2,6 +2,7 @@
 // runs under the site's Content Security Policy, and axe finds nothing serious on it; also at phone width.
 import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type Page } from '@playwright/test'
+import { demoAccounts } from '../../shared/utils/demoAccounts'
 
 const shots = 'tests/browser/report'
 
@@ -67,8 +68,18 @@ test('a guide at phone width: no sideways scrolling, readable, nothing serious f
   expect(problems).toEqual([])
 })
 
-test('the product page links the care guide and the bench its safety guide', async ({ page }) => {
+test('the product page links the care guide; the bench and the batches page link the safety guide', async ({ page }) => {
   await page.goto('/cylinders')
   await page.getByRole('main').getByRole('link').filter({ hasText: /polka|waltz|ballad|blank/i }).first().click()
   await expect(page.getByRole('link', { name: 'the care guide' })).toHaveAttribute('href', '/guides/care')
+  const maker = demoAccounts.find(a => a.role === 'maker')!
+  await page.goto('/signin')
+  await page.getByLabel('E-mail').fill(maker.email)
+  await page.getByLabel('Password').fill(maker.password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
+  for (const path of ['/workshop/bench', '/workshop/batches']) {
+    await page.goto(path)
+    await expect(page.locator('main a[href="/guides/workshop-safety"]').first(), path).toBeVisible()
+  }
 })
