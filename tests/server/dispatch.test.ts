@@ -248,6 +248,7 @@ describe('the whole path: heat check, pack, ship, delivered', () => {
     const packed = answers.find(a => a.status === 200)!
     expect(packed.body).toMatchObject({ status: 'packed', weighedG: 1180, packing: { boxId: 'box-14x14x12' } })
     expect(answers.find(a => a.status === 409)!.body.message).toMatch(/packed/)
+    expect(keysOf(packed.body).filter(key => moneyKey.test(key))).toEqual([])
     const timeline = (await maker.get(`/api/workshop/orders/${path.orderNumber}`)).body.timeline.map((step: any) => step.to)
     expect(timeline.filter((to: string) => to === 'packed')).toHaveLength(1)
     const queue = await shipper.get(`/api/dispatch/queue?q=${path.orderNumber.toLowerCase()}`)
@@ -266,6 +267,7 @@ describe('the whole path: heat check, pack, ship, delivered', () => {
     const answers = await Promise.all([ship(path.orderNumber, body), ship(path.orderNumber, body)])
     expect(answers.map(a => a.status).sort()).toEqual([200, 409])
     expect(answers.find(a => a.status === 200)!.body).toMatchObject({ status: 'shipped', trackingNumber: 'RR473124829GB', ticketsDone: 3 })
+    expect(keysOf(answers.find(a => a.status === 200)!.body).filter(key => moneyKey.test(key))).toEqual([])
 
     const order = await maker.get(`/api/workshop/orders/${path.orderNumber}`)
     expect(order.body.status).toBe('shipped')
@@ -319,6 +321,16 @@ describe('the whole path: heat check, pack, ship, delivered', () => {
     expect(delivered.status, JSON.stringify(delivered.body)).toBe(200)
     expect(delivered.body.deliveredVia).toBe('shipper')
     expect((await shipper.post(`/api/dispatch/${number}/delivered`)).status).toBe(409)
+  })
+
+  it('a packed parcel that a heat check holds back is not shipped until the check allows it', async () => {
+    const number = await demoOrder('packed')
+    expect((await heatCheck(shipper, number, { forecastHigh: 40, unit: 'C', transitDays: 2 })).body.verdict).toBe('hold')
+    const held = await ship(number, { carrier: 'courier', trackingNumber: 'CX-300400' })
+    expect(held.status).toBe(409)
+    expect(held.body.data.nextShipDate > today()).toBe(true)
+    expect((await heatCheck(shipper, number, { forecastHigh: 15, unit: 'C', transitDays: 2 })).body.verdict).toBe('ok')
+    expect((await maker.get(`/api/workshop/orders/${number}`)).body.status).toBe('packed')
   })
 
   it('a shipper sees no price or payment anywhere in dispatch, and cannot refund or answer claims', async () => {
