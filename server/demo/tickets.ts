@@ -190,7 +190,7 @@ const demoOrders: DemoOrder[] = [
         details: {},
         message: {
           occasion: 'Retirement', recipientName: 'Aunt Clemency Wardle', wishedInDays: 16, notes: 'She taught at the Lowmere school for forty years; say "Miss Wardle" the way her pupils did.',
-          script: 'Dear Miss Wardle, forty years of chalk dust, spelling tests and patience! From every pupil who ever sat in the front row at Lowmere: thank you, and enjoy your garden at last.',
+          script: 'Dear Miss Wardle, forty years of chalk dust, spelling tests and patience! From every pupil who ever sat in the front row at Lowmere: thank you. You taught us our letters, our tables, and how to say sorry and mean it. You kept a jar of barley sugar for hard days and never once told us which days were hard. Enjoy your garden at last, and know that the whole town is listening to this record with you.',
         },
       },
     }],

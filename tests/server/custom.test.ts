@@ -367,8 +367,9 @@ describe('a personal message from checkout to approval', () => {
     expect(limit.status).toBe(402)
     expect(limit.body.message).toBe('You have used your free re-cut; a further re-cut costs $25.00.')
     expect(limit.body.data.paidRecutMinor).toBe(2500)
-    const approved = await collector.post(`/api/orders/${orderNumber}/proofs/${proof2}/approve`, {})
-    expect(approved.status, JSON.stringify(approved.body)).toBe(200)
+    // A double click: both requests arrive at once, one approves and the other is told it is answered.
+    const both = await Promise.all([1, 2].map(() => collector.post(`/api/orders/${orderNumber}/proofs/${proof2}/approve`, {})))
+    expect(both.map(answer => answer.status).sort()).toEqual([200, 409])
     expect((await ticketOf(orderNumber)).stage).toBe('approved')
     expect((await maker.get(`/api/workshop/orders/${orderNumber}`)).body.status).toBe('in_production')
     const final = (await collector.get(`/api/orders/${orderNumber}`)).body.messages[0]
@@ -452,6 +453,19 @@ describe('a personal message from checkout to approval', () => {
     expect((await new Client().post('/api/cart/quote', { items: [] })).status).toBe(400)
     const created = await collector.post('/api/checkout', { ...checkoutBody([message()]), items: [] })
     expect(created.status, JSON.stringify(created.body)).toBe(201)
+  })
+
+  it('the demo holds a message at its cut: its cue sheet and the proof form can be tried', async () => {
+    const board = await maker.get('/api/workshop/tickets?stage=cut')
+    const demo = (board.body.tickets as any[]).find(ticket => ticket.kind === 'custom' && ticket.message)
+    expect(demo, 'a demo message ticket at stage cut').toBeDefined()
+    const cue = await maker.get(`/api/workshop/tickets/${demo.id}/cue-sheet`)
+    expect(cue.status).toBe(200)
+    expect(cue.body).toMatchObject({ occasion: 'Retirement', voice: 'maker', blankCode: expect.any(String) })
+    // 78 words at 150 a minute (0.4 s each, from memory) is 31.2 s of speech: marks at 15 s (word 38) and 30 s (word 76).
+    expect(cue.body.marks).toEqual([{ second: 15, wordIndex: 37 }, { second: 30, wordIndex: 75 }])
+    const mine = await collector.get(`/api/orders/${demo.orderNumber}`)
+    expect(mine.body.messages[0]).toMatchObject({ occasion: 'Retirement', proofs: [] })
   })
 
   it('a message and a cylinder check out together: one parcel, shipping for two cylinders', async () => {
