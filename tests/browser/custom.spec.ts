@@ -171,6 +171,10 @@ async function cutAndSendProof(page: Page, ticketId: number, blankCode: string, 
   await expect(stage).toHaveText('Cut')
   await page.getByLabel('Transfer of the cut (WAV or MP3)').setInputFiles({ name: `take-${take}.wav`, mimeType: 'audio/wav', buffer: proofWav(2 + take, 330 + take * 110) })
   await page.getByLabel('Note for the customer').fill(`Take ${take}, cut at 160 rpm.`)
+  if (take === 1) {
+    await page.screenshot({ path: `${shots}/ticket-proof-desktop.png`, fullPage: true })
+    await noSeriousAxe(page)
+  }
   await page.getByRole('button', { name: 'Send proof' }).click()
   await expect(stage).toHaveText('Proof sent')
 }
@@ -223,6 +227,9 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
     ticketId = (await (await maker.request.get(`/api/workshop/tickets?q=${orderNumber}`)).json()).tickets[0]?.id ?? 0
     return ticketId
   }, { timeout: 15_000 }).toBeGreaterThan(0)
+  // The board shows the message's fit and its wished-for date.
+  await maker.goto(`/workshop/tickets?q=${orderNumber}`)
+  await expect(maker.getByTestId(`ticket-${ticketId}`).getByTestId('custom-fit')).toContainText(/Message 0:\d\d, fits · wished for \d+ \w+ 20\d\d/)
   await cutAndSendProof(maker, ticketId, blanks[0]!, 1)
 
   // The cue sheet: the script in large type with its marks.
