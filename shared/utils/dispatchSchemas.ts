@@ -89,8 +89,17 @@ export const dispatchShipSchema = z.object({
 })
 export type DispatchShipInput = z.output<typeof dispatchShipSchema>
 
-/** Limits of a breakage claim: photos per claim and the length of the description. */
-export const claimLimits = { photosMin: 1, photosMax: 6, descriptionMin: 10, descriptionMax: 2000 } as const
+/**
+ * Limits of a breakage claim: photos per claim and the length of the description. Written over several
+ * lines: the auto-import scan reads a one-line `export const x = { a: 1, b: 2 } as const` as running on
+ * into the next export, which then goes missing.
+ */
+export const claimLimits = {
+  photosMin: 1,
+  photosMax: 6,
+  descriptionMin: 10,
+  descriptionMax: 2000,
+} as const
 
 export const claimFormSchema = z.object({
   description: z.string({ error: 'description is required: say what arrived broken' }).trim()

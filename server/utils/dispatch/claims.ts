@@ -1,7 +1,5 @@
 import { and, desc, eq, inArray } from 'drizzle-orm'
 import type { H3Event } from 'h3'
-// Imported by name: the auto-import scan misses this export.
-import { claimFormSchema } from '#shared/utils/dispatchSchemas'
 import { claims, files, orderEvents, orderItems, orders, shipments, users } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
 
