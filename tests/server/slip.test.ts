@@ -4,8 +4,9 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { url } from '@nuxt/test-utils/e2e'
 import { beforeAll, describe, expect, it } from 'vitest'
+import { makeSurfaceWav } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
-import { Client, signedIn, useTestServer } from './harness'
+import { Client, signedIn, useTestServer, waitFor } from './harness'
 
 /*
  * The packing slip and the address label, read back the way a scanner and a person read them: each
@@ -15,7 +16,8 @@ import { Client, signedIn, useTestServer } from './harness'
  */
 
 const siteUrl = 'http://localhost:3000'
-await useTestServer({ NUXT_SITE_URL: siteUrl })
+const uploadsDir = mkdtempSync(join(tmpdir(), 'gw-slip-uploads-'))
+const env = await useTestServer({ NUXT_SITE_URL: siteUrl, NUXT_UPLOADS_DIR: uploadsDir })
 
 const account = (role: string) => demoAccounts.find(a => a.role === role)!
 const work = mkdtempSync(join(tmpdir(), 'gw-slip-'))
@@ -183,5 +185,60 @@ describe('address label', () => {
       expect(word.x1, word.word).toBeLessThanOrEqual(word.page.width - 10)
       expect(word.y1, word.word).toBeLessThanOrEqual(word.page.height - 10)
     }
+  })
+})
+
+describe('a guest\'s made cylinder', () => {
+  /** A multipart upload as the browser sends it (cookie and this site's Origin). */
+  async function upload(path: string, bytes: Uint8Array, name: string) {
+    const form = new FormData()
+    form.append('file', new Blob([bytes], { type: 'audio/wav' }), name)
+    const target = url(path)
+    const response = await fetch(target, { method: 'POST', body: form, headers: { origin: new URL(target).origin, accept: 'application/json', cookie: [...maker.cookies].map(([k, v]) => `${k}=${v}`).join('; ') } })
+    return { status: response.status, body: await response.json() as any }
+  }
+
+  it('has a certificate code carrying the order\'s signed key, which opens the certificate without signing in', async () => {
+    // A tested blank, a recorder and a cylinder cut to order, bought by a guest and made (as tests/server/tickets.test.ts drives it).
+    const batch = await maker.post('/api/workshop/batches', { code: 'SL-26-01', formula: 'stearic acid 75 / paraffin 25', pourDate: '2026-04-02', volumetricExpansionPerK: 0.00075, softeningPointC: 62 })
+    expect(batch.status, JSON.stringify(batch.body)).toBe(201)
+    const recorder = await maker.post('/api/workshop/recorders', { name: 'Slip Lathe', stylus: 'sapphire', horn: 'brass' })
+    expect(recorder.status).toBe(201)
+    const blank = await maker.post('/api/workshop/blanks', { batchId: batch.body.id, format: 'two_minute', count: 1, diameterIn: '2.206' })
+    const code = blank.body.codes[0] as string
+    expect((await maker.post(`/api/workshop/blanks/${code}/reaming`, { overhangBeforeIn: '3/16', overhangAfterIn: '7/16', reamings: 4, roomTemperatureF: 74 })).status).toBe(201)
+    expect((await maker.post(`/api/workshop/blanks/${code}/shaving`, { lowDiameterIn: '2.200', wheelDegrees: 45, passes: 1, diameterAfterIn: '2.200' })).status).toBe(201)
+    const wav = makeSurfaceWav({ seconds: 6, sampleRate: 22_050, levelDbfs: -58, swellDepth: 0.02, seed: 5 })
+    const tested = await upload(`/api/workshop/blanks/${code}/surface-tests`, wav, `${code}.wav`)
+    expect(tested.status, JSON.stringify(tested.body)).toBe(201)
+    const product = await maker.post('/api/workshop/products', { slug: 'slip-test-cut', title: 'Slip Test Two-Step', kind: 'recorded', performer: 'The Test Quartet', runningTimeS: 100, format: 'two_minute', material: 'hard stearic wax', priceMinor: 3000, stock: 5, madeToOrder: true })
+    expect(product.status, JSON.stringify(product.body)).toBe(201)
+
+    const guest = new Client()
+    const bought = await guest.post('/api/checkout', { items: [{ slug: 'slip-test-cut', qty: 1 }], email: 'guest-slip@collectors.test', shippingAddress: { name: 'Perpetua Wick', line1: '9 Lantern Row', city: 'Lowmere', postalCode: 'LM2 8PW', country: 'Fernland' }, zone: 'domestic' })
+    expect(bought.status, JSON.stringify(bought.body)).toBe(201)
+    const { orderNumber: number, url: payUrl, accessToken } = bought.body as { orderNumber: string, url: string, accessToken: string }
+    const paid = await fetch(`${env.payments.url}/_fake/sessions/${payUrl.split('/').pop()}/complete?wait=true`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' })
+    expect(paid.status).toBe(200)
+    const [ticket] = await waitFor(async () => {
+      const board = await maker.get(`/api/workshop/tickets?q=${number}`)
+      return board.body.tickets?.length === 1 ? board.body.tickets as { id: number }[] : null
+    }, 10_000, 'the ticket')
+    expect((await maker.post(`/api/workshop/tickets/${ticket!.id}/assign`, { blankCode: code })).status).toBe(200)
+    expect((await maker.post(`/api/workshop/tickets/${ticket!.id}/cut`, { recorderId: recorder.body.id })).status).toBe(200)
+    expect((await maker.post(`/api/workshop/tickets/${ticket!.id}/stage`, { to: 'to_dispatch', note: '' })).status).toBe(200)
+
+    const answer = await fetchBytes(shipper, `/api/dispatch/${number}/slip.pdf?paper=letter`)
+    expect(answer.status).toBe(200)
+    const pdf = readPdf('slip-guest', answer.bytes)
+    expect(pdf.codes).toContain(number)
+    const certificateUrl = `${siteUrl}/certificates/${ticket!.id}?t=${accessToken}`
+    expect(pdf.codes).toContain(certificateUrl)
+    expect(pdf.text).toContain(code)
+    // The address read from the code opens the certificate for whoever holds the slip, signed in or not.
+    const opened = await new Client().get(`/api/certificates/${ticket!.id}?t=${accessToken}`)
+    expect(opened.status).toBe(200)
+    expect(opened.body.blank.code).toBe(code)
+    expect((await new Client().get(`/api/certificates/${ticket!.id}`)).status).toBe(404)
   })
 })
