@@ -1,4 +1,4 @@
-import type { DispatchEntry } from './useDispatchQueue'
+import type { DispatchQueueEntry } from './useDispatchQueue'
 import type { DispatchHeatVerdict, DispatchTemperatureUnit } from './useDispatchWords'
 
 export type DispatchPacking = {
@@ -28,7 +28,7 @@ export interface DispatchHeatCheck {
 }
 
 /** One order at the packing bench: the queue's entry plus the boxes, the engine's packing, the checklist and carriers. */
-export interface DispatchOrder extends DispatchEntry {
+export interface DispatchOrder extends DispatchQueueEntry {
   boxes: { id: string, label: string }[]
   packing: DispatchPacking
   checklist: { id: string, label: string }[]

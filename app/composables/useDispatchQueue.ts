@@ -32,7 +32,7 @@ export interface DispatchShipment {
 }
 
 /** An order in the dispatch queue: where it goes, what is in it and how to pack it; never a price. */
-export interface DispatchEntry {
+export interface DispatchQueueEntry {
   number: string
   status: string
   since: string
@@ -47,10 +47,10 @@ export interface DispatchEntry {
 }
 
 export interface DispatchQueue {
-  readyToPack: DispatchEntry[]
-  held?: DispatchEntry[]
-  packed: DispatchEntry[]
-  shipped?: DispatchEntry[]
+  readyToPack: DispatchQueueEntry[]
+  held?: DispatchQueueEntry[]
+  packed: DispatchQueueEntry[]
+  shipped?: DispatchQueueEntry[]
   more: boolean
 }
 
