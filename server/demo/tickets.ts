@@ -6,6 +6,7 @@
 import { eq, inArray } from 'drizzle-orm'
 import { analyseSurfaceWav, makeSurfaceWav } from '../audio'
 import { blanks, customMessages, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
+import type { BlankRow, OrderRow, ProductRow } from '#shared/types/rows'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import { hashPassword } from '#imports'
 import { productSlugFrom } from '#shared/utils/catalogueSchemas'
@@ -17,7 +18,7 @@ import { moveBlank } from '../utils/workshop/blanks'
 import { getSetting } from '../utils/workshop/settings'
 import { eligibleBlanks, latestCurrentSurfaceTest, ticketDueDate, ticketWishesFromDetails } from '../utils/workshop/tickets'
 
-type OrderStatusValue = typeof orders.$inferSelect['status']
+type OrderStatusValue = OrderRow['status']
 type TicketStageValue = typeof tickets.$inferSelect['stage']
 
 const DAY = 86_400_000
@@ -268,7 +269,7 @@ export async function seedDemoTickets(db: Database) {
   console.info(`[seed] demo tickets: 5 recorders (${cutsMade} test cuts), ${summary.orders} orders, ${summary.tickets} tickets in ${((performance.now() - started) / 1000).toFixed(1)} s`)
 }
 
-interface DemoBlankChoice { id: number, code: string, state: typeof blanks.$inferSelect['state'] }
+interface DemoBlankChoice { id: number, code: string, state: BlankRow['state'] }
 
 /**
  * Chooses the blank for a demo ticket: first a blank the register's seed left reserved or cut for a
@@ -295,7 +296,7 @@ interface OrderContext {
   demo: DemoOrder
   orderIndex: number
   owner: { id: number, name: string, email: string, address: { line1: string, city: string, postalCode: string, country: string } }
-  productBySlug: Map<string, typeof products.$inferSelect>
+  productBySlug: Map<string, ProductRow>
   engine: EngineSettings
   pickBlank: (format: 'two_minute' | 'four_minute', stage: TicketStageValue) => DemoBlankChoice | null
   inService: number[]

@@ -1,7 +1,5 @@
 import type { H3Event } from 'h3'
-import type { files } from '../../db/schema'
-
-type StoredFileRow = typeof files.$inferSelect
+import type { StoredFileRow } from '#shared/types/rows'
 
 /**
  * Sends a stored file once the caller has decided who may have it: its type, an inline name, a sandboxed

@@ -1,4 +1,5 @@
 import { randomBytes } from 'node:crypto'
+import Busboy from 'busboy'
 import { create as contentDisposition } from 'content-disposition'
 import { resolve } from 'node:path'
 import { inArray } from 'drizzle-orm'
@@ -12,8 +13,6 @@ import fsDriver from 'unstorage/drivers/fs'
 import { files } from '../../db/schema'
 import { AudioInputError, decodeWav } from '../../audio'
 import type { Database, Transaction } from './db'
-
-export type StoredFile = typeof files.$inferSelect
 
 // Multipart framing around the one file (boundaries, part headers, a long file name) stays well below this.
 const MULTIPART_ALLOWANCE_BYTES = 64 * 1024
@@ -92,34 +91,98 @@ export interface UploadedFilePart {
 /**
  * Reads a multipart upload: one file in the field `file`, any other fields as text. Every route that
  * takes a file reads it here, so each upload gets the same checks: the declared size against the
- * purpose's limit before a byte is read (the parser holds the whole body in memory), one file at most,
- * its name (`checkClientFileName`), not empty, not over the limit, and text fields free of control
- * characters (`rejectControlCharacters`, as for JSON bodies). With `required` a missing file is a
- * 400 naming `file` with that text; without it `file` is null. Each refusal is a 4xx naming its field.
+ * purpose's limit before a byte is read, then the body streamed through busboy into one buffer that
+ * never grows past the limit (the moment the file passes it the answer is 413 and the rest of the body
+ * is discarded unread), one file at most, its name (`checkClientFileName`), not empty, and text fields
+ * free of control characters (`rejectControlCharacters`, as for JSON bodies). With `required` a missing
+ * file is a 400 naming `file` with that text; without it `file` is null. Each refusal is a 4xx naming its field.
  */
 export async function readUploadForm(event: H3Event, purpose: UploadPurpose, options: { required?: string } = {}): Promise<{ file: UploadedFilePart | null, fields: Record<string, string> }> {
   checkDeclaredSize(event, purpose)
   if (!/^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')) {
     throw fieldError('file', 'send the file as multipart/form-data in a field named "file"')
   }
-  const parts = await readMultipartFormData(event) ?? []
-  const fileParts = parts.filter(part => part.name === 'file' && part.filename !== undefined)
-  if (fileParts.length > 1) throw fieldError('file', 'send one file at a time; nothing was stored')
-  const fields: Record<string, string> = {}
-  for (const part of parts) {
-    if (part.name && part.name !== 'file' && part.filename === undefined) fields[part.name] = part.data.toString('utf8')
-  }
+  const { file, fileParts, fields } = await streamMultipart(event, purpose)
+  if (fileParts > 1) throw fieldError('file', 'send one file at a time; nothing was stored')
   // The text fields get the check every JSON body gets, before any schema reads them.
   rejectControlCharacters(fields)
-  const part = fileParts[0]
-  if (!part) {
+  if (!file) {
     if (options.required) throw fieldError('file', options.required)
     return { file: null, fields }
   }
-  checkClientFileName(part.filename)
-  if (part.data.byteLength === 0) throw fieldError('file', 'the file is empty (0 bytes); choose the file again. Nothing was stored.')
-  if (part.data.byteLength > uploadLimit(purpose).maxBytes) throw tooLarge(purpose)
-  return { file: { data: part.data, filename: part.filename ?? '' }, fields }
+  checkClientFileName(file.filename)
+  if (file.data.byteLength === 0) throw fieldError('file', 'the file is empty (0 bytes); choose the file again. Nothing was stored.')
+  return { file, fields }
+}
+
+// A text field beside the file (notes, rpm, a few ids) is short; a longer one is refused, not cut.
+const MAX_TEXT_FIELD_BYTES = 256 * 1024
+
+/**
+ * The multipart body as it arrives: the first part named `file` with a file name is gathered into a buffer
+ * of at most the purpose's limit (413 the moment it would pass); other file parts are counted and discarded; text
+ * fields are kept. Rejects with a 4xx naming the field; once it has rejected, the rest of the body is drained.
+ */
+function streamMultipart(event: H3Event, purpose: UploadPurpose): Promise<{ file: UploadedFilePart | null, fileParts: number, fields: Record<string, string> }> {
+  const request = event.node.req
+  const maxBytes = uploadLimit(purpose).maxBytes
+  return new Promise((resolvePromise, reject) => {
+    let parser: Busboy.Busboy
+    try {
+      parser = Busboy({ headers: request.headers, defParamCharset: 'utf8', limits: { fileSize: maxBytes, fieldSize: MAX_TEXT_FIELD_BYTES, fields: 100, parts: 200 } })
+    }
+    catch {
+      reject(fieldError('file', 'the upload could not be read as multipart/form-data (no boundary); nothing was stored'))
+      return
+    }
+    const fields: Record<string, string> = {}
+    let file: UploadedFilePart | null = null
+    let fileParts = 0
+    let settled = false
+    const fail = (error: unknown) => {
+      if (settled) return
+      settled = true
+      request.unpipe(parser)
+      // Whatever the client still sends is read and dropped, so the answer can go out on the same connection.
+      request.resume()
+      reject(error)
+    }
+    parser.on('field', (name, value, info) => {
+      if (info.valueTruncated) return fail(fieldError(name, `longer than ${MAX_TEXT_FIELD_BYTES / 1024} KB; nothing was stored`))
+      if (name && name !== 'file') fields[name] = value
+    })
+    parser.on('file', (name, stream, info) => {
+      if (name !== 'file' || info.filename === undefined) {
+        stream.resume()
+        return
+      }
+      fileParts++
+      if (fileParts > 1) {
+        stream.resume()
+        return
+      }
+      const chunks: Buffer[] = []
+      let size = 0
+      stream.on('data', (chunk: Buffer) => {
+        size += chunk.byteLength
+        chunks.push(chunk)
+      })
+      stream.on('limit', () => fail(tooLarge(purpose)))
+      stream.on('end', () => {
+        if (!settled) file = { data: chunks.length === 1 ? chunks[0]! : Buffer.concat(chunks, size), filename: info.filename }
+      })
+    })
+    parser.on('partsLimit', () => fail(fieldError('file', 'too many parts in the form; nothing was stored')))
+    parser.on('fieldsLimit', () => fail(fieldError('file', 'too many fields in the form; nothing was stored')))
+    parser.on('error', () => fail(fieldError('file', 'the upload could not be read as multipart/form-data (damaged or cut short); nothing was stored')))
+    parser.on('close', () => {
+      if (settled) return
+      settled = true
+      resolvePromise({ file, fileParts, fields })
+    })
+    request.on('aborted', () => fail(createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'file: the upload was cut short; nothing was stored.' })))
+    request.pipe(parser)
+  })
 }
 
 interface Sniffed {
@@ -233,7 +296,7 @@ async function reencodePhoto(bytes: Buffer): Promise<Prepared> {
 }
 
 /** Writes bytes under a generated key and records them; the row and the bytes stand or fall together. */
-export async function storeFile(db: Database | Transaction, input: { id?: string, data: Uint8Array, mime: string, purpose: string, originalName: string, isPublic: boolean, uploadedBy: number | null }): Promise<StoredFile> {
+export async function storeFile(db: Database | Transaction, input: { id?: string, data: Uint8Array, mime: string, purpose: string, originalName: string, isPublic: boolean, uploadedBy: number | null }): Promise<StoredFileRow> {
   const id = input.id ?? newFileId()
   const storage = await uploadStorage()
   await storage.setItemRaw(id, input.data)

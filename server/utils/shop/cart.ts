@@ -2,8 +2,6 @@ import { inArray } from 'drizzle-orm'
 import { products } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
 
-export type Product = typeof products.$inferSelect
-
 export interface QuoteChange {
   slug: string
   kind: 'price' | 'stock' | 'unavailable'
@@ -14,8 +12,8 @@ export interface QuoteLine {
   slug: string
   productId: number
   title: string
-  kind: Product['kind']
-  format: Product['format']
+  kind: ProductRow['kind']
+  format: ProductRow['format']
   qty: number
   unitPriceMinor: number
   lineTotalMinor: number
@@ -38,7 +36,7 @@ export async function quoteCart(db: Database | Transaction, input: { items: Cart
   const rows = await db.select().from(products).where(inArray(products.slug, input.items.map(item => item.slug)))
   const bySlug = new Map(rows.map(row => [row.slug, row]))
   const changes: QuoteChange[] = []
-  const kept: { item: CartItemInput, product: Product, qty: number }[] = []
+  const kept: { item: CartItemInput, product: ProductRow, qty: number }[] = []
   for (const item of input.items) {
     const product = bySlug.get(item.slug)
     if (!product || product.hidden || product.kind === 'custom') {

@@ -2,8 +2,6 @@ import { and, asc, count, desc, eq, ilike, or, type SQL } from 'drizzle-orm'
 import { products } from '../../db/schema'
 import type { Database } from '../platform/db'
 
-export type ProductRow = typeof products.$inferSelect
-
 export function fileUrl(id: string | null | undefined): string | null {
   return id ? `/files/${id}` : null
 }

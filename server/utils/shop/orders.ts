@@ -3,7 +3,8 @@ import { and, eq, ne, sql } from 'drizzle-orm'
 import { orderEvents, orderItems, orders, products, refundItems, refunds } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
 
-export type Order = typeof orders.$inferSelect
+/** The order row (`OrderRow` of shared/types/rows.ts) under the name the shop's code has long used. */
+export type Order = OrderRow
 type OrderStatusValue = Order['status']
 /** An order row this transaction holds locked: read `for update`, or just written by it. */
 type LockedOrder = Pick<Order, 'id' | 'status'>
@@ -110,7 +111,7 @@ export async function restockRefund(tx: Database | Transaction, refundId: number
 }
 
 /** An item the maker may put back on sale: a stock item whose product still exists (not cut to order). */
-export function restockableItem(item: typeof orderItems.$inferSelect): boolean {
+export function restockableItem(item: OrderItemRow): boolean {
   return item.productId !== null && !item.madeToOrder && item.kind !== 'custom'
 }
 

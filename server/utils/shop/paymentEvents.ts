@@ -36,7 +36,6 @@ const NO_ORDER = 'names no order of this shop'
 // What a sender wrote, as it goes into a log line or an outcome: quoted and cut short.
 const shown = (value: unknown) => JSON.stringify(String(value).slice(0, 80))
 
-type OrderRow = typeof orders.$inferSelect
 const sameCurrency = (given: string | null | undefined, order: OrderRow) => (given ?? '').toLowerCase() === order.currency.toLowerCase()
 
 /**

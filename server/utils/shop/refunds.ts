@@ -26,7 +26,7 @@ export type RefundRequest = z.output<typeof refundRequestSchema>
  * already returned or asked to return. Runs with the order locked, so two refunds cannot both return the
  * last one.
  */
-async function chooseRestock(tx: Transaction, order: typeof orders.$inferSelect, wanted: boolean | { itemId: number, qty: number }[]) {
+async function chooseRestock(tx: Transaction, order: OrderRow, wanted: boolean | { itemId: number, qty: number }[]) {
   if (wanted === false) return []
   const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, order.id)).orderBy(orderItems.id)
   const returned = await returnedCounts(tx, order.id)

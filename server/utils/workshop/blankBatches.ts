@@ -2,8 +2,6 @@ import { desc, eq, sql } from 'drizzle-orm'
 import { blanks, surfaceTests, waxBatches } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
 
-export type WaxBatchRow = typeof waxBatches.$inferSelect
-
 const testedBlank = sql`exists (select 1 from ${surfaceTests} where ${surfaceTests.blankId} = ${blanks.id})`
 const passedBlank = sql`exists (select 1 from ${surfaceTests} where ${surfaceTests.blankId} = ${blanks.id} and ${surfaceTests.finalVerdict} = 'pass')`
 

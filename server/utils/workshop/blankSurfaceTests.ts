@@ -1,10 +1,8 @@
 import type { ZodType } from 'zod'
 import { surfaceTests } from '../../db/schema'
 import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceAnalysisOptions } from '../../audio'
-import type { BlankRow } from './blanks'
+import type { BlankRow, SurfaceTestRow } from '#shared/types/rows'
 import type { Transaction } from '../platform/db'
-
-export type SurfaceTestRow = typeof surfaceTests.$inferSelect
 
 const statusMessages: Record<number, string> = {
   400: 'Invalid input',

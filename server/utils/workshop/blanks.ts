@@ -3,7 +3,6 @@ import type { H3Event } from 'h3'
 import { blankCodeCounters, blankLog, blanks, orders, surfaceTests, tickets, waxBatches } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
 
-export type BlankRow = typeof blanks.$inferSelect
 type BlankLogKind = typeof blankLog.$inferInsert['kind']
 
 /**

@@ -5,7 +5,6 @@ import { blanks, recorders, testCuts } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
-export type Recorder = typeof recorders.$inferSelect
 
 const text = (field: string, max: number, min = 0) => z.string({ error: `${field} must be text` }).trim()
   .min(min, `${field} is required`).max(max, `${field} is at most ${max} characters`)
@@ -154,7 +153,7 @@ export async function storeTestCut(tx: Db, input: { bytes: Uint8Array, name: str
   return cut!
 }
 
-export async function findRecorder(db: Db, id: number): Promise<Recorder> {
+export async function findRecorder(db: Db, id: number): Promise<RecorderRow> {
   const [recorder] = await db.select().from(recorders).where(eq(recorders.id, id))
   if (!recorder) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `recorderId: no recorder has the id ${id}.`, data: { fields: { recorderId: 'no such recorder' } } })
   return recorder
@@ -167,7 +166,7 @@ export async function findRecorder(db: Db, id: number): Promise<Recorder> {
  * transaction that stores the cut) the row stays locked, so a ticket cannot reserve the blank
  * between this check and the move to `cut`.
  */
-export async function blankForTestCut(db: Db, code: string, lock = false): Promise<typeof blanks.$inferSelect> {
+export async function blankForTestCut(db: Db, code: string, lock = false): Promise<BlankRow> {
   const blank = await findBlankByCode(db, code, { lock, field: 'blankCode' })
   const holder = await blankHolderOf(db, blank.id)
   const refusal = blankActionRefusal('testCut', blank.state, holder)
@@ -187,7 +186,7 @@ export async function blankForTestCut(db: Db, code: string, lock = false): Promi
  * offered it as a tested blank any more), and its history says which cut did it. A reshave gives it
  * a fresh surface again.
  */
-export async function markBlankTestCut(tx: Transaction, blank: typeof blanks.$inferSelect, cut: { id: number, recorderName: string }, byUserId: number) {
+export async function markBlankTestCut(tx: Transaction, blank: BlankRow, cut: { id: number, recorderName: string }, byUserId: number) {
   const surface = blankCurrentSurface(blank.surfacesUsed)
   await moveBlank(tx, blank.id, {
     from: blank.state,

@@ -4,7 +4,6 @@ import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
 export type Ticket = typeof tickets.$inferSelect
-type Blank = typeof blanks.$inferSelect
 type TicketStageValue = Ticket['stage']
 
 const ticketNotFound = () => notFoundError('No such ticket.')
@@ -44,7 +43,7 @@ export async function logTicketEvent(tx: Db, ticketId: number, from: TicketStage
  * index skips tickets that exist. An unpaid order gets none. Given the row the payment just wrote, the
  * order is not read again; given its id, it is read and locked.
  */
-export async function createTicketsForOrder(tx: Db, paidOrder: number | Order): Promise<number> {
+export async function createTicketsForOrder(tx: Db, paidOrder: number | OrderRow): Promise<number> {
   const [order] = typeof paidOrder === 'number' ? await tx.select().from(orders).where(eq(orders.id, paidOrder)).for('update') : [paidOrder]
   if (!order || !order.paidAt || !['paid', 'in_production'].includes(order.status)) return 0
   const orderId = order.id
@@ -81,7 +80,7 @@ export async function syncOrderWithTickets(tx: Db, orderId: number, actorUserId:
 }
 
 /** The latest surface test of the blank's current surface, or null. */
-export async function latestCurrentSurfaceTest(db: Db, blank: Pick<Blank, 'id' | 'surfacesUsed'>) {
+export async function latestCurrentSurfaceTest(db: Db, blank: Pick<BlankRow, 'id' | 'surfacesUsed'>) {
   const [test] = await db.select().from(surfaceTests)
     .where(and(eq(surfaceTests.blankId, blank.id), eq(surfaceTests.surface, blank.surfacesUsed + 1)))
     .orderBy(desc(surfaceTests.testedAt), desc(surfaceTests.id)).limit(1)
@@ -98,7 +97,7 @@ export async function openTicketHoldingBlank(db: Db, blankId: number, exceptTick
  * Blanks a ticket of `format` may take: state tested_pass, the latest test of the current surface
  * passed, and no open ticket holds it. Quietest first. The same rule the assignment enforces.
  */
-export async function eligibleBlanks(db: Db, format: Blank['format'], options: { code?: string, limit?: number } = {}) {
+export async function eligibleBlanks(db: Db, format: BlankRow['format'], options: { code?: string, limit?: number } = {}) {
   const latest = db.select({
     finalVerdict: surfaceTests.finalVerdict,
     aWeightedDbfs: surfaceTests.aWeightedDbfs,
@@ -136,7 +135,7 @@ export async function eligibleBlanks(db: Db, format: Blank['format'], options: {
 }
 
 /** Why this blank may not go to this ticket (a sentence for a 409), or null. */
-async function blankRefusal(db: Db, ticket: Ticket, blank: Blank): Promise<string | null> {
+async function blankRefusal(db: Db, ticket: Ticket, blank: BlankRow): Promise<string | null> {
   if (blank.format !== ticket.format) {
     return `Blank ${blank.code} is a ${blankFormatLabels[blank.format]} blank; ticket #${ticket.id} needs a ${blankFormatLabels[ticket.format]} one.`
   }
@@ -214,7 +213,7 @@ export async function lockTicketForMove(tx: Transaction, ticketId: number) {
 }
 
 /** Checks that the ticket's blank can take the cut now: reserved for it, its current surface tested and passed. */
-export async function blankReadyForCut(tx: Transaction, ticket: Ticket): Promise<Blank> {
+export async function blankReadyForCut(tx: Transaction, ticket: Ticket): Promise<BlankRow> {
   const [blank] = ticket.blankId ? await tx.select().from(blanks).where(eq(blanks.id, ticket.blankId)) : []
   if (!blank) throw conflictError(`Ticket #${ticket.id} has no blank yet: assign a tested blank before recording the cut.`)
   if (blank.state === 'cut') throw conflictError(`Blank ${blank.code} carries the rejected cut: change the blank (assign a fresh tested one) before cutting again.`)
@@ -225,7 +224,7 @@ export async function blankReadyForCut(tx: Transaction, ticket: Ticket): Promise
 }
 
 /** Marks the cut: ticket → cut with recorder, date and test cut; blank reserved → cut. */
-export async function markTicketCut(tx: Transaction, ticket: Ticket, blank: Blank, cut: { recorderId: number, cutAt: Date, testCutId: number | null, recorderName: string, note?: string }, actorUserId: number) {
+export async function markTicketCut(tx: Transaction, ticket: Ticket, blank: BlankRow, cut: { recorderId: number, cutAt: Date, testCutId: number | null, recorderName: string, note?: string }, actorUserId: number) {
   await tx.update(tickets).set({ stage: 'cut', recorderId: cut.recorderId, cutAt: cut.cutAt, cutTestId: cut.testCutId, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
   await moveBlank(tx, blank.id, { from: 'reserved', to: 'cut', reason: `Cut for ticket #${ticket.id} on ${cut.recorderName}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
   await logTicketEvent(tx, ticket.id, ticket.stage, 'cut', `Cut on ${blank.code} with ${cut.recorderName}${cut.testCutId ? ', with a test recording' : ''}.${cut.note ? ` ${cut.note}` : ''}`, actorUserId)
