@@ -6,6 +6,7 @@ import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type APIRequestContext, type Browser, type Page } from '@playwright/test'
 import { makeSurfaceWav } from '../../server/audio/synth'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { messageFitForFormat } from '../../shared/utils/messageFit'
 import { formatMoney } from '../../shared/utils/money'
 
 const shots = 'tests/browser/report'
@@ -130,6 +131,15 @@ test('the meter and the price on /custom are the quote\'s; a message too long or
     expect(refused.status(), await refused.text()).toBe(400)
     expect(Object.keys((await refused.json()).data.fields)).toContain(field)
   }
+
+  // The guide's table of what fits agrees with the fit engine at the shop's default figures.
+  await page.getByRole('link', { name: 'How much fits, how long it takes, how proofs work' }).click()
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Personal messages on wax')
+  const table = page.getByRole('table')
+  for (const format of ['two_minute', 'four_minute'] as const) {
+    await expect(table).toContainText(String(messageFitForFormat('', format).maxWords))
+  }
+  await noSeriousAxe(page)
   expect(pageErrors).toEqual([])
 })
 
