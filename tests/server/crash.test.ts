@@ -226,4 +226,48 @@ describe.skipIf(!embedded)('crash safety of the embedded database', () => {
     const count = await expectConsistent(restoredShop, before, initialStock, 'after restore')
     expect(count).toBeGreaterThanOrEqual(before.size)
   })
+
+  it('on SIGTERM finishes the checkouts it took in, exits cleanly, and a retry with the same key loses nothing', { timeout: 120_000 }, async () => {
+    const shop = new Shop(base)
+    await shop.call('/api/auth/login', { email: maker.email, password: maker.password })
+    const buyers = 30
+    const outcome = new Map<number, number | 'no answer'>()
+    const order = (index: number) => ({
+      items: [{ slug: 'crash-test-blank', qty: 1 }],
+      email: `sigterm-${index}@collectors.test`,
+      shippingAddress: { name: 'Shutdown Tester', line1: '3 Test Row', city: 'Lowmere', postalCode: 'LM1', country: 'Utopia' },
+      zone: 'domestic',
+      checkoutKey: `sigterm-test-key-${String(index).padStart(4, '0')}`,
+    })
+    let created = 0
+    const ours = new Set<string>()
+    const burst = Array.from({ length: buyers }, async (_, index) => {
+      await new Promise(done => setTimeout(done, index * 20))
+      const answer = await new Shop(base).call('/api/checkout', order(index)).catch(() => null)
+      outcome.set(index, answer?.status ?? 'no answer')
+      if (answer?.status === 201) {
+        created++
+        ours.add(answer.body.orderNumber)
+      }
+    })
+    const deadline = Date.now() + 8000
+    while (created < 5 && Date.now() < deadline) await new Promise(done => setTimeout(done, 10))
+    const exited = new Promise<number | null>(done => server!.once('exit', code => done(code)))
+    server!.kill('SIGTERM')
+    await Promise.allSettled(burst)
+    // Nitro stops taking connections, lets the requests in flight finish, then closes the database.
+    expect(await exited).toBe(0)
+    const statuses = [...outcome.values()]
+    expect(statuses.filter(status => typeof status === 'number' && status >= 500), JSON.stringify(statuses)).toEqual([])
+    expect(statuses.filter(status => status === 201).length).toBeGreaterThanOrEqual(5)
+
+    await start(join(dataDir, 'restored-db'), join(dataDir, 'restored-uploads'))
+    // The customers whose press got no answer press again (the browser keeps the key): one order each.
+    const again = await Promise.all(Array.from({ length: buyers }, (_, index) => new Shop(base).call('/api/checkout', order(index))))
+    expect(again.map(answer => answer.status).filter(status => status !== 200 && status !== 201)).toEqual([])
+    const numbers = new Set(again.map(answer => answer.body.orderNumber as string))
+    expect(numbers.size).toBe(buyers)
+    for (const number of ours) expect(numbers.has(number), `order ${number} answered before the shutdown is not the one the retry found`).toBe(true)
+    await expectConsistent(shop, numbers, initialStock, 'after SIGTERM')
+  })
 })
