@@ -294,6 +294,13 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
   await page.reload()
   await expect(proofs.getByText('Take 2, cut at 160 rpm.')).toBeVisible()
   expect(await audioSeconds(page, 0)).toBeGreaterThan(0)
+  // The free re-cut is used: asking again shows the server's refusal with the price, and a way to pay.
+  await proofs.getByRole('button', { name: 'Ask for a re-cut' }).click()
+  await expect(proofs.getByText('No free re-cuts left: a further one is charged.')).toBeVisible()
+  await proofs.getByLabel('What should be different?').fill('A little slower, please.')
+  await proofs.getByRole('button', { name: 'Send the re-cut request' }).click()
+  await expect(proofs.getByRole('alert')).toContainText('a further re-cut costs $')
+  await expect(proofs.getByRole('button', { name: /^Pay \$\d+\.\d\d for a re-cut$/ })).toBeVisible()
   await proofs.getByRole('button', { name: 'Approve this proof' }).click()
   await expect(proofs.getByTestId('proof-answer').first()).toContainText('You approved this proof')
   await expect.poll(async () => (await (await maker.request.get(`/api/workshop/tickets/${ticketId}`)).json()).stage).toBe('approved')
