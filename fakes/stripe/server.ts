@@ -5,11 +5,12 @@
 // Test controls live under `/_fake/`. Run alone with `npm run fake:stripe`.
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http'
 import { pathToFileURL } from 'node:url'
+import escapeHtml from 'escape-html'
 import qs from 'qs'
 import { checkoutPage, declinedPage, messagePage, PAGE_TITLE, successUrlFor } from './page'
 import { createState, NO_REQUEST, type Charge, type CheckoutSession, type RequestInfo, type StripeEvent } from './state'
 import {
-  ApiError, canonical, createdFilter, escapeHtml, expandPaths, invalid, isObject, LIST_PARAMS, listPage, makeId,
+  ApiError, canonical, createdFilter, expandPaths, invalid, isObject, LIST_PARAMS, listPage, makeId,
   readArray, readExpand, readString, rejectUnknown, unrecognisedUrl, type Params,
 } from './util'
 import { createDelivery, type DeliveryAttempt, type SendOptions } from './webhooks'
