@@ -129,7 +129,8 @@ function streamMultipart(event: H3Event, purpose: UploadPurpose): Promise<{ file
   return new Promise((resolvePromise, reject) => {
     let parser: Busboy.Busboy
     try {
-      parser = Busboy({ headers: request.headers, defParamCharset: 'utf8', limits: { fileSize: maxBytes, fieldSize: MAX_TEXT_FIELD_BYTES, fields: 100, parts: 200 } })
+      // preservePath: busboy would otherwise cut a path off the file name, and such a name is refused, not relabelled.
+      parser = Busboy({ headers: request.headers, defParamCharset: 'utf8', preservePath: true, limits: { fileSize: maxBytes, fieldSize: MAX_TEXT_FIELD_BYTES, fields: 100, parts: 200 } })
     }
     catch {
       reject(fieldError('file', 'the upload could not be read as multipart/form-data (no boundary); nothing was stored'))
