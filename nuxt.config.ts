@@ -15,7 +15,12 @@ export default defineNuxtConfig({
         { name: 'viewport', content: 'width=device-width, initial-scale=1' },
         { name: 'description', content: 'New wax cylinder records, blanks and personal messages, made and tested by hand.' },
       ],
-      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+      link: [
+        { rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' },
+        // The heading face and the text face, fetched with the page rather than after its CSS (app/assets/css/fonts.css).
+        { rel: 'preload', as: 'font', type: 'font/woff2', href: '/fonts/fraunces-latin-700-v5.woff2', crossorigin: 'anonymous' },
+        { rel: 'preload', as: 'font', type: 'font/woff2', href: '/fonts/ibm-plex-sans-latin-400-v5.woff2', crossorigin: 'anonymous' },
+      ],
       script: [
         // Before any bundle runs: zod's schemas skip their speed-up through `new Function`, whose probe the
         // CSP below (no 'unsafe-eval') would report as a violation on every page (README "Security").
@@ -23,7 +28,7 @@ export default defineNuxtConfig({
       ],
     },
   },
-  css: ['@fontsource/fraunces/600.css', '@fontsource/fraunces/700.css', '@fontsource/ibm-plex-sans/400.css', '@fontsource/ibm-plex-sans/500.css', '@fontsource/ibm-plex-sans/600.css'],
+  css: ['~/assets/css/fonts.css'],
   // Guides are Markdown rendered on the server (/guides): no code highlighting (no inline styles for the CSP), plain headings.
   mdc: {
     highlight: false,
@@ -75,6 +80,8 @@ export default defineNuxtConfig({
     },
   },
   routeRules: {
+    // Font files carry a version in their names (app/assets/css/fonts.css).
+    '/fonts/**': { headers: { 'cache-control': 'public, max-age=31536000, immutable' } },
     // Answers with personal data (orders, addresses, accounts, exports) are never stored by a cache.
     '/api/**': { headers: { 'cache-control': 'no-store', 'content-security-policy': 'default-src \'none\'; frame-ancestors \'none\'' } },
     '/account': { headers: { 'cache-control': 'no-store' } },
@@ -145,6 +152,9 @@ export default defineNuxtConfig({
     ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
     // The guides (content/guides/*.md) and the slip's fonts (server/assets/fonts) travel inside the built server.
     serverAssets: [{ baseName: 'guides', dir: guidesDir }],
+    // Build assets are stored compressed beside the originals and served so to clients that take br or gzip;
+    // pages and JSON are compressed as they go out (server/plugins/compression.ts).
+    compressPublicAssets: { gzip: true, brotli: true },
     storage: {
       // Re-mounted at run time at `uploadsDir` (NUXT_UPLOADS_DIR) by server/utils/platform/uploads.ts, unless
       // NUXT_UPLOADS_DRIVER=build: then this mount is used as it is (put a shared driver here).

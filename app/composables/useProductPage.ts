@@ -5,13 +5,13 @@
 export async function useProductPage() {
   const route = useRoute()
   const slug = computed(() => String(route.params.slug))
-  const { data: product, error } = await useFetch(() => `/api/shop/products/${slug.value}`, { key: `product-${slug.value}` })
-  if (error.value) throw createError({ statusCode: 404, statusMessage: 'No such cylinder in the shop.', fatal: true })
-
+  // Everything that needs the app's context is set up before the first await, after which it is gone.
   const config = useRuntimeConfig()
   const site = config.public.siteUrl || ''
   const cart = useCartStore()
   const added = ref('')
+  const request = useFetch(() => `/api/shop/products/${slug.value}`, { key: `product-${slug.value}` })
+  const { data: product, error } = request
 
   useHead(() => ({
     title: product.value?.title ?? 'Cylinder',
@@ -38,6 +38,8 @@ export async function useProductPage() {
         }]
       : [],
   }))
+  await request
+  if (error.value) throw createError({ statusCode: 404, statusMessage: 'No such cylinder in the shop.', fatal: true })
 
   function addToCart(qty: number) {
     if (!product.value) return

@@ -6,9 +6,13 @@ const paramsSchema = z.object({ slug: z.string().trim().min(1, 'slug is required
 
 export default defineEventHandler(async (event) => {
   const { slug } = paramsWith(event, paramsSchema)
-  const db = await useDB()
-  const [product] = await db.select().from(products).where(and(eq(products.slug, slug), eq(products.hidden, false)))
-  if (!product || product.kind === 'custom') throw notFoundError('No such cylinder in the shop.')
-  const settings = await getSetting('engine', db)
-  return publicProduct(product, settings.prices.currency)
+  // The same for everyone: kept until a product or a setting changes (catalogueCache.ts); a miss is kept too.
+  const shown = await cachedCatalogueAnswer(`product:${slug}`, async (db) => {
+    const [product] = await db.select().from(products).where(and(eq(products.slug, slug), eq(products.hidden, false)))
+    if (!product || product.kind === 'custom') return null
+    const settings = await getSetting('engine', db)
+    return publicProduct(product, settings.prices.currency)
+  })
+  if (!shown) throw notFoundError('No such cylinder in the shop.')
+  return shown
 })
