@@ -139,6 +139,13 @@ test('the shipper packs and ships a collector\'s order from a phone; the collect
   await expect(page.getByTestId('packing-figures')).toContainText(/\d g \(/)
   await noSeriousAxe(page)
 
+  // A box from the shop's list is packed again by the server; one too small says why and keeps the last packing.
+  await page.getByLabel('Outer box', { exact: true }).selectOption('box-4x4x6')
+  await expect(page.getByTestId('box-error')).toContainText('does not take')
+  await expect(page.getByRole('button', { name: 'Mark packed' })).toBeDisabled()
+  await page.getByLabel('Outer box', { exact: true }).selectOption('')
+  await expect(page.getByTestId('box-error')).toHaveCount(0)
+
   // 18 °C for two days on the road: cool enough.
   await heatCheck(page, '18', '2')
   await expect(page.getByTestId('heat-answer')).toContainText('OK to ship')
@@ -208,6 +215,7 @@ test('the shipper packs and ships a collector\'s order from a phone; the collect
   await customer.getByRole('button', { name: 'Send the report' }).click()
   await expect(customer.getByTestId('order-claim')).toContainText('Being looked at')
   await expect(customer.getByTestId('order-claim').getByRole('img')).toHaveCount(1)
+  await expect(customer.getByLabel('What happened')).toHaveValue('')
   await noSeriousAxe(customer)
   await customer.screenshot({ path: `${shots}/order-claim-phone.png`, fullPage: true })
 
