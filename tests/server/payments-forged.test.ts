@@ -150,13 +150,13 @@ describe('signed checkout events that are not the order\'s own payment change no
     const answer = await deliver(payload, now + 120)
     expect(answer.status).toBe(200)
     expect(answer.body).toMatchObject({ outcome: 'paid' })
-    expect((await orderAs(order.orderNumber, order.accessToken)).status).toBe('paid')
+    expect((await orderAs(order.orderNumber, order.accessToken)).status).toBe('ready_to_pack')
   })
 
   it('the real flow through the payment page still pays: paid once, stock taken once, one confirmation', async () => {
     const order = await openOrder(2, 5)
     await fake(`/_fake/sessions/${order.session.id}/complete?wait=true`, {})
-    await waitFor(async () => (await orderAs(order.orderNumber, order.accessToken)).status === 'paid', 10_000, 'the order to be paid')
+    await waitFor(async () => (await orderAs(order.orderNumber, order.accessToken)).status === 'ready_to_pack', 10_000, 'the order to be paid')
     expect(await stockOf(order.product.slug)).toBe(3)
     await waitFor(async () => mailsAbout(order.orderNumber).length > 0, 10_000, 'the confirmation mail')
     await new Promise(resolve => setTimeout(resolve, 600))
@@ -170,7 +170,7 @@ describe('signed refund events that are not the order\'s own refunds change noth
   it('a charge or refund of another payment, or a made-up refund claiming one the shop asked for, neither refunds nor restocks', async () => {
     const order = await openOrder(2, 5)
     await fake(`/_fake/sessions/${order.session.id}/complete?wait=true`, {})
-    await waitFor(async () => (await orderAs(order.orderNumber, order.accessToken)).status === 'paid', 10_000, 'payment')
+    await waitFor(async () => (await orderAs(order.orderNumber, order.accessToken)).status === 'ready_to_pack', 10_000, 'payment')
     const paid = await orderAs(order.orderNumber, order.accessToken)
     const total = paid.totalMinor as number
     const currency = order.session.currency as string
@@ -214,7 +214,7 @@ describe('signed refund events that are not the order\'s own refunds change noth
 
     await new Promise(resolve => setTimeout(resolve, 600))
     const after = await orderAs(order.orderNumber, order.accessToken)
-    expect(after.status).toBe('paid')
+    expect(after.status).toBe('ready_to_pack')
     expect(after.refundedMinor).toBe(1000)
     expect(await stockOf(order.product.slug)).toBe(3)
     expect((await workshop.get(`/api/workshop/orders/${order.orderNumber}`)).body.refunds.map((row: any) => row.status)).toEqual(['requested'])

@@ -93,7 +93,7 @@ describe('payment and fulfilment', () => {
 
     const session = sessionIdOf(url)
     const completed = await fake(`/_fake/sessions/${session}/complete?wait=true`, {})
-    await waitFor(async () => (await orderAs(orderNumber, accessToken)).status === 'paid', 10_000, 'the order to be paid')
+    await waitFor(async () => (await orderAs(orderNumber, accessToken)).status === 'ready_to_pack', 10_000, 'the order to be paid')
 
     const eventId = completed.event.id
     await fake(`/_fake/events/${eventId}/duplicate`, { times: 4 })
@@ -102,8 +102,9 @@ describe('payment and fulfilment', () => {
     await new Promise(resolve => setTimeout(resolve, 800))
 
     const order = await orderAs(orderNumber, accessToken)
-    expect(order.status).toBe('paid')
-    expect(order.timeline.map((step: any) => step.to)).toEqual(['awaiting_payment', 'paid'])
+    expect(order.status).toBe('ready_to_pack')
+    // Nothing to make: a stock order goes from paid straight to the shipper's queue.
+    expect(order.timeline.map((step: any) => step.to)).toEqual(['awaiting_payment', 'paid', 'ready_to_pack'])
     expect(await stockOf(product.slug)).toBe(3)
     const mails = await waitFor(async () => {
       const found = env.fake.list().filter(m => m.subject.includes(orderNumber))
@@ -134,7 +135,7 @@ describe('payment and fulfilment', () => {
 
     const good = await post(payload, signPayload(payload, webhookSecret))
     expect(good.status).toBe(200)
-    expect((await orderAs(orderNumber, accessToken)).status).toBe('paid')
+    expect((await orderAs(orderNumber, accessToken)).status).toBe('ready_to_pack')
   })
 
   it('40 concurrent checkouts for the last one in stock: exactly one wins, the rest hear "sold out"; an abandoned hold comes back', async () => {
@@ -192,7 +193,7 @@ describe('orders: who may see and change them', () => {
     const created = await checkout(new Client(), [{ slug: product.slug, qty: 2 }])
     const { orderNumber, url, accessToken } = created.body
     await fake(`/_fake/sessions/${sessionIdOf(url)}/complete?wait=true`, {})
-    await waitFor(async () => (await orderAs(orderNumber, accessToken)).status === 'paid', 10_000, 'payment')
+    await waitFor(async () => (await orderAs(orderNumber, accessToken)).status === 'ready_to_pack', 10_000, 'payment')
 
     const shipper = await signedIn(account('shipper').email, account('shipper').password)
     expect((await shipper.post(`/api/workshop/orders/${orderNumber}/refund`, { reason: 'not mine to give' })).status).toBe(403)
@@ -207,7 +208,7 @@ describe('orders: who may see and change them', () => {
     const part = await maker.post(`/api/workshop/orders/${orderNumber}/refund`, { amountMinor: 500, reason: 'a chipped label' })
     expect(part.status).toBe(202)
     await waitFor(async () => (await orderAs(orderNumber, accessToken)).refundedMinor === 500, 10_000, 'the partial refund')
-    expect((await orderAs(orderNumber, accessToken)).status).toBe('paid')
+    expect((await orderAs(orderNumber, accessToken)).status).toBe('ready_to_pack')
 
     const rest = await maker.post(`/api/workshop/orders/${orderNumber}/refund`, { reason: 'returned unopened', restock: true })
     expect(rest.status).toBe(202)
@@ -330,10 +331,10 @@ describe('leaving the payment page, and checking out twice', () => {
 
     const paid = await checkout(new Client(), [{ slug: product.slug, qty: 1 }])
     await fake(`/_fake/sessions/${sessionIdOf(paid.body.url)}/complete?wait=true`, {})
-    await waitFor(async () => (await orderAs(paid.body.orderNumber, paid.body.accessToken)).status === 'paid', 10_000, 'payment')
+    await waitFor(async () => (await orderAs(paid.body.orderNumber, paid.body.accessToken)).status === 'ready_to_pack', 10_000, 'payment')
     const refused = await new Client().post(`/api/orders/${paid.body.orderNumber}/cancel`, { t: paid.body.accessToken })
     expect(refused.status).toBe(409)
-    expect(refused.body.message).toMatch(/already paid/)
+    expect(refused.body.message).toMatch(/already ready to pack; it cannot be cancelled/)
     expect(await stockOf(product.slug)).toBe(2)
   })
 
@@ -405,7 +406,7 @@ describe('refunds put back on sale what the maker chooses', () => {
     const created = await checkout(new Client(), [{ slug: stock.slug, qty: 2 }])
     const { orderNumber, url, accessToken } = created.body
     await fake(`/_fake/sessions/${sessionIdOf(url)}/complete?wait=true`, {})
-    await waitFor(async () => (await orderAs(orderNumber, accessToken)).status === 'paid', 10_000, 'payment')
+    await waitFor(async () => (await orderAs(orderNumber, accessToken)).status === 'ready_to_pack', 10_000, 'payment')
     const item = (await maker.get(`/api/workshop/orders/${orderNumber}`)).body.items[0]
     const refund = (body: Record<string, unknown>) => maker.post(`/api/workshop/orders/${orderNumber}/refund`, { reason: 'returned unopened', ...body })
 
@@ -437,7 +438,7 @@ describe('refunds put back on sale what the maker chooses', () => {
     const created = await checkout(new Client(), [{ slug: stock.slug, qty: 3 }, { slug: cut.slug, qty: 1 }])
     const { orderNumber, url, accessToken } = created.body
     await fake(`/_fake/sessions/${sessionIdOf(url)}/complete?wait=true`, {})
-    await waitFor(async () => ['paid', 'in_production'].includes((await orderAs(orderNumber, accessToken)).status), 10_000, 'payment')
+    await waitFor(async () => ['paid', 'in_production', 'ready_to_pack'].includes((await orderAs(orderNumber, accessToken)).status), 10_000, 'payment')
     expect(await stockOf(stock.slug)).toBe(7)
     const cutStock = await stockOf(cut.slug)
 

@@ -140,7 +140,7 @@ describe('tickets from orders', () => {
     expect(detail.body.events.map((e: any) => [e.from, e.to])).toEqual([[null, 'queued']])
   })
 
-  it('an unpaid order gets no ticket, and a paid order of stock items only gets none either', async () => {
+  it('an unpaid order gets no ticket, and a paid order of stock items only gets none either: it goes straight to packing', async () => {
     const product = await madeToOrderProduct()
     const unpaid = await order(collector, [{ slug: product.slug, qty: 1 }], false)
     const stockOnly = await order(collector, [{ slug: 'plain-blank-4-minute-paraffin', qty: 1 }])
@@ -148,7 +148,7 @@ describe('tickets from orders', () => {
     expect(await ticketsOf(unpaid.orderNumber)).toHaveLength(0)
     expect(await orderStatus(unpaid.orderNumber)).toBe('awaiting_payment')
     expect(await ticketsOf(stockOnly.orderNumber)).toHaveLength(0)
-    expect(await orderStatus(stockOnly.orderNumber)).toBe('paid')
+    expect(await orderStatus(stockOnly.orderNumber)).toBe('ready_to_pack')
   })
 })
 

@@ -49,7 +49,11 @@ export async function createTicketsForOrder(tx: Db, paidOrder: number | OrderRow
   const orderId = order.id
   const items = await tx.select().from(orderItems).where(eq(orderItems.orderId, orderId))
   const toMake = items.filter(item => item.madeToOrder || item.kind === 'custom')
-  if (toMake.length === 0) return 0
+  if (toMake.length === 0) {
+    // Nothing to cut: stock cylinders and blanks go straight to the shipper.
+    await moveOrder(tx, order, ['paid'], 'ready_to_pack', {}, 'Nothing to make: the stock items go straight to packing.')
+    return 0
+  }
   const settings = await getSetting('engine', tx)
   const dueDate = ticketDueDate(order.paidAt, settings.production.leadTimeDays)
   // A personal message is due on its wished-for date, or after its lead time if that is later.
