@@ -132,6 +132,8 @@ export const products = pgTable('products', {
   editionSize: integer('edition_size'),
   // Recorded cylinders cut for each order need a production ticket; stock blanks only need picking.
   madeToOrder: boolean('made_to_order').notNull().default(false),
+  // The wax formula of the shop's list a made cylinder (recorded, custom) or a blank is of.
+  waxFormulaId: text('wax_formula_id'),
   hidden: boolean('hidden').notNull().default(false),
   photoFileIds: jsonb('photo_file_ids').$type<string[]>().notNull().default([]),
   photoAlt: text('photo_alt').notNull().default(''),
@@ -281,6 +283,15 @@ export const waxBatches = pgTable('wax_batches', {
   // Feeds the heat-and-fit calculator; per kelvin, volumetric (linear is about a third).
   volumetricExpansionPerK: doublePrecision('volumetric_expansion_per_k').notNull(),
   softeningPointC: doublePrecision('softening_point_c'),
+  // The wax formula of the shop's list (Workshop figures → wax formulas) this batch was cast from.
+  waxFormulaId: text('wax_formula_id'),
+  // The pour as the trade records it.
+  meltTempC: doublePrecision('melt_temp_c'),
+  pourTempC: doublePrecision('pour_temp_c'),
+  mouldTempC: doublePrecision('mould_temp_c'),
+  coolingMinutes: integer('cooling_minutes'),
+  castCount: integer('cast_count'),
+  rejectedAtCasting: integer('rejected_at_casting'),
   notes: text('notes').notNull().default(''),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
 })
@@ -324,7 +335,8 @@ export const blankLog = pgTable('blank_log', {
   index('blank_log_blank').on(table.blankId, table.at),
 ])
 
-export const testVerdict = pgEnum('test_verdict', ['pass', 'marginal', 'fail'])
+// `incomplete`: the play-through does not cover enough of the surface to judge it; never a pass.
+export const testVerdict = pgEnum('test_verdict', ['pass', 'marginal', 'fail', 'incomplete'])
 
 export const surfaceTests = pgTable('surface_tests', {
   id: serial('id').primaryKey(),
@@ -392,6 +404,8 @@ export const tickets = pgTable('tickets', {
   cutTestId: integer('cut_test_id').references(() => testCuts.id, { onDelete: 'set null' }),
   // Re-cuts asked for by the customer (free ones first, then paid), counted for the shop's limit.
   recuts: integer('recuts').notNull().default(0),
+  // Why the maker gave this ticket a blank of another wax or format than the item's (shown on the certificate).
+  blankOverrideReason: text('blank_override_reason'),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 }, table => [
