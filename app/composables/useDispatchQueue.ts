@@ -25,6 +25,7 @@ export interface DispatchHeat {
 
 export interface DispatchShipment {
   carrier: string | null
+  carrierLabel?: string | null
   trackingNumber: string | null
   packedAt: string | null
   shippedAt: string | null
@@ -52,6 +53,7 @@ export interface DispatchQueue {
   packed: DispatchQueueEntry[]
   shipped?: DispatchQueueEntry[]
   more: boolean
+  temperatureUnit?: 'C' | 'F'
 }
 
 export const dispatchTabs = [

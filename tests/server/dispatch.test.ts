@@ -299,7 +299,7 @@ describe('the whole path: heat check, pack, ship, delivered', () => {
 
   it('delivered by the customer (a second press is a 409); a stranger gets 404; the order page shows the shipment and the claim window', async () => {
     const view = await customer.get(`/api/orders/${path.orderNumber}`)
-    expect(view.body).toMatchObject({ status: 'shipped', canMarkDelivered: true, canClaim: false, claimUntil: null, shipment: { carrier: 'post', trackingNumber: 'RR473124829GB' } })
+    expect(view.body).toMatchObject({ status: 'shipped', canMarkDelivered: true, canClaim: false, claimUntil: null, shipment: { carrier: 'post', carrierLabel: 'Postal service', trackingNumber: 'RR473124829GB' } })
     expect((await stranger.post(`/api/orders/${path.orderNumber}/delivered`)).status).toBe(404)
     expect((await new Client().post(`/api/orders/${path.orderNumber}/delivered`)).status).toBe(404)
     const delivered = await customer.post(`/api/orders/${path.orderNumber}/delivered`)

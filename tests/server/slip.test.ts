@@ -114,7 +114,7 @@ describe('packing slip', () => {
       for (const pageSize of pdf.pageSizes) expect(pageSize).toBe(size)
       // Scanned as a scanner would: the Code 128 reads the order number, each QR its certificate's address.
       expect(pdf.codes).toContain(orderNumber)
-      for (const { ticketId } of certificates) expect(pdf.codes).toContain(`${siteUrl}/certificates/${ticketId}`)
+      for (const { ticketId } of certificates) expect(pdf.codes.some(code => code.startsWith(`${siteUrl}/certificates/${ticketId}?t=`)), pdf.codes.join(' ')).toBe(true)
       expect(pdf.codes).toContain(`${siteUrl}/guides/care`)
 
       const words = pdf.text.replace(/\s+/g, ' ')
@@ -198,7 +198,7 @@ describe('a guest\'s made cylinder', () => {
     return { status: response.status, body: await response.json() as any }
   }
 
-  it('has a certificate code carrying the order\'s signed key, which opens the certificate without signing in', async () => {
+  it('has a certificate code carrying that certificate\'s own key: it opens the certificate without signing in, and not the order', async () => {
     // A tested blank, a recorder and a cylinder cut to order, bought by a guest and made (as tests/server/tickets.test.ts drives it).
     const batch = await maker.post('/api/workshop/batches', { code: 'SL-26-01', formula: 'stearic acid 75 / paraffin 25', pourDate: '2026-04-02', volumetricExpansionPerK: 0.00075, softeningPointC: 62 })
     expect(batch.status, JSON.stringify(batch.body)).toBe(201)
@@ -232,13 +232,19 @@ describe('a guest\'s made cylinder', () => {
     expect(answer.status).toBe(200)
     const pdf = readPdf('slip-guest', answer.bytes)
     expect(pdf.codes).toContain(number)
-    const certificateUrl = `${siteUrl}/certificates/${ticket!.id}?t=${accessToken}`
-    expect(pdf.codes).toContain(certificateUrl)
+    const certificateUrl = pdf.codes.find(found => found.startsWith(`${siteUrl}/certificates/${ticket!.id}?t=`))
+    expect(certificateUrl, pdf.codes.join(' ')).toBeTruthy()
+    const key = new URL(certificateUrl!).searchParams.get('t')!
+    // Not the order's key: the slip may travel with a gift, and the order's page shows what was paid.
+    expect(key).not.toBe(accessToken)
     expect(pdf.text).toContain(code)
     // The address read from the code opens the certificate for whoever holds the slip, signed in or not.
-    const opened = await new Client().get(`/api/certificates/${ticket!.id}?t=${accessToken}`)
+    const opened = await new Client().get(`/api/certificates/${ticket!.id}?t=${key}`)
     expect(opened.status).toBe(200)
     expect(opened.body.blank.code).toBe(code)
     expect((await new Client().get(`/api/certificates/${ticket!.id}`)).status).toBe(404)
+    // The key opens that certificate only: not the order, not another certificate.
+    expect((await new Client().get(`/api/orders/${number}?t=${key}`)).status).toBe(404)
+    expect((await new Client().get(`/api/certificates/${certificates[0]!.ticketId}?t=${key}`)).status).toBe(404)
   })
 })

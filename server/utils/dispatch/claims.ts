@@ -49,7 +49,7 @@ export async function orderDispatchView(db: Db, order: OrderRow) {
   const claimUntil = await claimLastDate(db, order, settings.dispatch.claimWindowDays)
   return {
     shipment: shipment && shipment.shippedAt
-      ? { carrier: shipment.carrier, trackingNumber: shipment.trackingNumber, shippedAt: shipment.shippedAt, deliveredAt: shipment.deliveredAt }
+      ? { carrier: shipment.carrier, carrierLabel: shipment.carrier ? carrierLabel(settings, shipment.carrier) : null, trackingNumber: shipment.trackingNumber, shippedAt: shipment.shippedAt, deliveredAt: shipment.deliveredAt }
       : null,
     claims: rows.map(claim => ({
       id: claim.id, status: claim.status, description: claim.description, createdAt: claim.createdAt, resolutionNote: claim.resolutionNote,

@@ -98,7 +98,7 @@ export async function dispatchEntries(db: Db, rows: DispatchOrderRow[], settings
       parcels: cylinders > 0 ? orderParcels(cylinders, settings) : [],
       heat: heatSummary(heat.get(order.id)),
       shipment: shipment
-        ? { carrier: shipment.carrier, trackingNumber: shipment.trackingNumber, packedAt: shipment.packedAt, shippedAt: shipment.shippedAt, deliveredAt: shipment.deliveredAt }
+        ? { carrier: shipment.carrier, carrierLabel: shipment.carrier ? carrierLabel(settings, shipment.carrier) : null, trackingNumber: shipment.trackingNumber, packedAt: shipment.packedAt, shippedAt: shipment.shippedAt, deliveredAt: shipment.deliveredAt }
         : null,
     }
   })

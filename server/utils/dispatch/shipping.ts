@@ -42,7 +42,8 @@ export async function packOrder(db: Database, number: string, input: DispatchPac
   })
 }
 
-const carrierLabel = (settings: EngineSettings, carrier: string) => settings.dispatch.carriers.find(entry => entry.id === carrier)?.label ?? carrier
+/** A carrier's name from the shop's list (the id kept on the shipment), or the free text the shipper typed. */
+export const carrierLabel = (settings: EngineSettings, carrier: string) => settings.dispatch.carriers.find(entry => entry.id === carrier)?.label ?? carrier
 
 /** Heat advice for the season the parcel travels in: the order's heat check when there is one, else the month. */
 function seasonHeatAdvice(verdict: string | undefined, now = new Date()): string {

@@ -61,9 +61,9 @@ export async function packingSlipOrder(db: Database, number: string): Promise<Pa
     .from(tickets).leftJoin(blanks, eq(blanks.id, tickets.blankId))
     .where(eq(tickets.orderId, order.id)).orderBy(asc(tickets.orderItemId), asc(tickets.unit))
   const siteUrl = String(useRuntimeConfig().siteUrl).replace(/\/+$/, '')
-  // A guest has no account to sign in to: the certificate address carries the order's signed key, as
-  // the guest's own order page does. A customer with an account signs in to read it.
-  const certificateKey = order.userId === null ? `?t=${orderAccessToken(order.number)}` : ''
+  // Whoever unpacks the parcel (perhaps not the buyer: a gift) can open the certificate from its code
+  // without signing in: the address carries that certificate's own key, which opens nothing else.
+  const certificateKey = (ticketId: number) => `?t=${certificateAccessToken(ticketId)}`
   const shop = await getSetting('shop', db)
 
   const lines = items.flatMap((item): SlipLine[] => {
@@ -77,7 +77,7 @@ export async function packingSlipOrder(db: Database, number: string): Promise<Pa
       unitNote: item.quantity > 1 ? `cylinder ${ticket.unit} of ${item.quantity}` : null,
       blankCode: ticket.blankCode,
       certificateUrl: ticket.blankCode && ticket.cutAt && certifiedTicketStages.includes(ticket.stage)
-        ? `${siteUrl}/certificates/${ticket.id}${certificateKey}`
+        ? `${siteUrl}/certificates/${ticket.id}${certificateKey(ticket.id)}`
         : null,
     }))
   })

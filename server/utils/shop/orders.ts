@@ -22,6 +22,23 @@ export function orderAccessTokenValid(orderNumber: string, token: string): boole
   return expected.length === given.length && timingSafeEqual(expected, given)
 }
 
+/**
+ * A key to one made cylinder's test certificate, printed in the QR code on the packing slip. It opens that
+ * certificate and nothing else: the slip may travel with a gift, and the order's own key would show what
+ * was paid.
+ */
+export function certificateAccessToken(ticketId: number): string {
+  const secret = String(useRuntimeConfig().session?.password ?? process.env.NUXT_SESSION_PASSWORD ?? '')
+  if (secret.length < 32) throw new Error('NUXT_SESSION_PASSWORD must be at least 32 characters: it also signs certificate links')
+  return createHmac('sha256', `certificate-link:${secret}`).update(String(ticketId)).digest('base64url').slice(0, 32)
+}
+
+export function certificateAccessTokenValid(ticketId: number, token: string): boolean {
+  const expected = Buffer.from(certificateAccessToken(ticketId))
+  const given = Buffer.from(token)
+  return expected.length === given.length && timingSafeEqual(expected, given)
+}
+
 export function orderLink(orderNumber: string, signedIn: boolean): string {
   const site = String(useRuntimeConfig().siteUrl)
   return signedIn ? `${site}/account/orders/${orderNumber}` : `${site}/orders/${orderNumber}?t=${orderAccessToken(orderNumber)}`

@@ -314,10 +314,15 @@ export async function ticketHistory(db: Db, ticketId: number) {
 }
 
 /** Who may read an order's certificates: its owner, the maker, or a guest holding the order's signed link. */
-export function mayReadOrderCertificates(user: { id: number, role: string } | null, order: { number: string, userId: number | null }, token: string | undefined): boolean {
+/**
+ * The maker, the order's owner, a guest with the order's signed link, or (for one certificate, `ticketId`)
+ * whoever holds that certificate's own key from the packing slip.
+ */
+export function mayReadOrderCertificates(user: { id: number, role: string } | null, order: { number: string, userId: number | null }, token: string | undefined, ticketId?: number): boolean {
   return user?.role === 'maker'
     || (user !== null && order.userId === user.id)
     || (token !== undefined && orderAccessTokenValid(order.number, token))
+    || (token !== undefined && ticketId !== undefined && certificateAccessTokenValid(ticketId, token))
 }
 
 /** Stages at which a cylinder has been cut and its certificate can be issued. */
