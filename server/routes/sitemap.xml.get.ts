@@ -6,7 +6,8 @@ export default defineEventHandler(async (event) => {
   const site = String(useRuntimeConfig(event).siteUrl).replace(/\/$/, '')
   const db = await useDB()
   const rows = await db.select({ slug: products.slug, kind: products.kind, updatedAt: products.updatedAt }).from(products).where(eq(products.hidden, false))
-  const pages = ['/', '/cylinders', '/cylinders?kind=blank', '/cylinders?kind=recorded']
+  const guides = await listGuides()
+  const pages = ['/', '/cylinders', '/cylinders?kind=blank', '/cylinders?kind=recorded', '/custom', '/guides', ...guides.map(guide => `/guides/${guide.slug}`)]
   const urls = [
     ...pages.map(path => `<url><loc>${escapeXml(site + path)}</loc></url>`),
     ...rows.filter(row => row.kind !== 'custom').map(row => `<url><loc>${escapeXml(`${site}/cylinders/${row.slug}`)}</loc><lastmod>${row.updatedAt.toISOString()}</lastmod></url>`),

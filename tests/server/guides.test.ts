@@ -106,4 +106,10 @@ describe('guides', () => {
     expect((await visitor.get('/api/guides/..%2Fpackage')).status).toBe(404)
     expect((await page('/guides/no-such-guide')).status).toBe(404)
   })
+
+  it('the sitemap lists the guides and the message page', async () => {
+    const sitemap = await visitor.request<string>('/sitemap.xml')
+    expect(sitemap.status).toBe(200)
+    for (const path of ['/guides</loc>', '/guides/care</loc>', '/guides/workshop-safety</loc>', '/custom</loc>']) expect(String(sitemap.body)).toContain(path)
+  })
 })
