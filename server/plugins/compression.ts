@@ -5,7 +5,7 @@ import type { H3Event } from 'h3'
 /*
  * Pages and JSON answers go out compressed when the client says it takes brotli or gzip (Accept-Encoding).
  * Build assets are compressed once at build time (nitro.compressPublicAssets) and served as they are.
- * Left alone: small answers, streams, byte ranges (206 / Content-Range), answers already encoded, and kinds
+ * Left alone: error answers, small answers, streams, byte ranges (206 / Content-Range), answers already encoded, and kinds
  * that are compressed already (audio, images but SVG, PDF, archives) or that are not text.
  */
 const MIN_BYTES = 1024
@@ -38,7 +38,8 @@ export default defineNitroPlugin((nitroApp) => {
   nitroApp.hooks.hook('beforeResponse', async (event, response) => {
     if (event.method === 'HEAD' || event.node.res.headersSent) return
     const status = event.node.res.statusCode
-    if (status === 206 || status === 204 || status === 304 || getResponseHeader(event, 'content-range') || getResponseHeader(event, 'content-encoding')) return
+    // Error answers are written by the error handler after this hook, as text: a compressed body would be mangled.
+    if (status >= 400 || status === 206 || status === 204 || status === 304 || getResponseHeader(event, 'content-range') || getResponseHeader(event, 'content-encoding')) return
     const encoding = chooseEncoding(event)
     const text = asText(event, response.body)
     if (!text || !textType.test(text.type)) return
