@@ -29,6 +29,13 @@ export const surfaceThresholdsSchema = z
     aWeightedDbfs: limitPair(-50, -44, 'A-weighted level', { min: -120, max: 0, unit: 'dBFS' }),
     rotaryDb: limitPair(15, 25, 'Once-per-turn strength', { min: 0, max: 80, unit: 'dB' }),
     clicksPerMinute: limitPair(6, 15, 'Clicks per minute', { min: 0, max: 600, unit: 'per minute' }),
+    /**
+     * Share of the format's playing time (at the test speed) a play-through must cover to be judged;
+     * a shorter take is stored as incomplete. A shop choice, common practice, no source.
+     */
+    coveragePercent: z.number({ error: 'Enter a number.' }).min(1, 'Enter 1 % or more.').max(100, 'Enter 100 % or less.').default(90),
+    /** A pass older than this many days is stale: the blank is tested again before it is cut. A shop choice. */
+    passMaxAgeDays: z.number({ error: 'Enter a number.' }).int('Enter whole days.').min(1, 'Enter 1 day or more.').max(3650, 'Enter 3650 days or less.').default(90),
   })
   .prefault({})
 
@@ -36,6 +43,30 @@ export type SurfaceThresholds = z.output<typeof surfaceThresholdsSchema>
 export type SurfaceThresholdsInput = z.input<typeof surfaceThresholdsSchema>
 
 export type SurfaceVerdict = 'pass' | 'marginal' | 'fail'
+
+/** What a stored test's verdict may also be: a play-through too short to cover the surface. */
+export type StoredSurfaceVerdict = SurfaceVerdict | 'incomplete'
+
+/**
+ * How much of the surface a play-through covers: its length against the format's playing time at the
+ * test speed (recorded length × grooves per inch ÷ rpm, `playingTimeMinutes` in shared/utils/cylinder.ts).
+ */
+export function surfaceCoverage(durationS: number, playingTimeS: number, coveragePercent: number) {
+  const percent = playingTimeS > 0 ? Math.min(100, (durationS / playingTimeS) * 100) : 0
+  return { durationS, playingTimeS, percent, required: coveragePercent, complete: percent + 1e-9 >= coveragePercent }
+}
+
+const clock = (seconds: number) => {
+  const whole = Math.round(seconds)
+  const minutes = Math.floor(whole / 60)
+  const rest = whole % 60
+  return minutes > 0 ? `${minutes} min${rest ? ` ${rest} s` : ''}` : `${rest} s`
+}
+
+/** Why a short take is incomplete, in the maker's words. */
+export function incompleteCoverageReason(coverage: { durationS: number, playingTimeS: number, percent: number, required: number }): string {
+  return `${clock(coverage.durationS)} covers ${Math.floor(coverage.percent)} % of the ${clock(coverage.playingTimeS)} surface (at least ${coverage.required} % is needed); play it through to the end.`
+}
 
 export interface VerdictInputs {
   aWeightedDbfs: number

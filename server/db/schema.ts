@@ -350,7 +350,7 @@ export const surfaceTests = pgTable('surface_tests', {
   rotaryDb: doublePrecision('rotary_db').notNull(),
   clicksPerMinute: doublePrecision('clicks_per_minute').notNull(),
   computedVerdict: testVerdict('computed_verdict').notNull(),
-  finalVerdict: text('final_verdict', { enum: ['pass', 'fail'] }).notNull(),
+  finalVerdict: text('final_verdict', { enum: ['pass', 'fail', 'incomplete'] }).notNull(),
   overruleReason: text('overrule_reason'),
   listeningNotes: text('listening_notes').notNull().default(''),
   testedBy: integer('tested_by').references(() => users.id, { onDelete: 'set null' }),

@@ -80,6 +80,11 @@ const recorded = (entry: Omit<DemoProduct, 'kind' | 'condition' | 'hidden' | 'ed
   ...entry,
 })
 
+/** The demo's wax formulas: the recordings are cut on the hard stearic wax; a plain blank is of the wax it names. */
+function demoWaxFormulaId(product: DemoProduct): string {
+  return defaultEngineSettings.fit.waxFormulas.find(formula => product.kind === 'blank' && product.material?.startsWith(formula.label))?.id ?? 'stearic_acid'
+}
+
 const blackWax = 'Stearic acid wax (hard, black)'
 const brownWax = 'Stearic acid wax with carnauba (hard, brown)'
 
@@ -411,7 +416,7 @@ export async function seedDemoCatalogue(db: Database) {
         ...photoBytes.map((bytes, index) => ({ id: photoFileIds[index]!, purpose: 'photo', mime: 'image/webp', bytes, originalName: `${product.slug}-${index + 1}.webp`, isPublic: true })),
         ...(sampleFileId ? [{ id: sampleFileId, purpose: 'audio', mime: 'audio/wav', bytes: sampleBytes!, originalName: `${product.slug}-sample.wav`, isPublic: true }] : []),
       ]).onConflictDoNothing()
-      const [inserted] = await tx.insert(products).values({ ...row, photoFileIds, sampleFileId })
+      const [inserted] = await tx.insert(products).values({ ...row, photoFileIds, sampleFileId, waxFormulaId: demoWaxFormulaId(product) })
         .onConflictDoNothing().returning({ id: products.id })
       if (!inserted) continue
       await tx.insert(productChanges).values([

@@ -5,7 +5,7 @@
 // register's seed; idempotent.
 import { eq, inArray } from 'drizzle-orm'
 import { analyseSurfaceWav, makeSurfaceWav } from '../audio'
-import { blanks, customMessages, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users } from '../db/schema'
+import { blanks, customMessages, files, orderEvents, orderItems, orders, products, recorders, refunds, testCuts, ticketEvents, tickets, users, waxBatches } from '../db/schema'
 import type { BlankRow, OrderRow, ProductRow } from '#shared/types/rows'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import { hashPassword } from '#imports'
@@ -17,6 +17,7 @@ import { uploadStorage } from '../utils/platform/uploads'
 import { moveBlank } from '../utils/workshop/blanks'
 import { getSetting } from '../utils/workshop/settings'
 import { eligibleBlanks, latestCurrentSurfaceTest, ticketDueDate, ticketWishesFromDetails } from '../utils/workshop/tickets'
+import { shopWaxFormulas } from '../utils/workshop/waxFormulas'
 
 type OrderStatusValue = OrderRow['status']
 type TicketStageValue = typeof tickets.$inferSelect['stage']
@@ -279,10 +280,14 @@ interface DemoBlankChoice { id: number, code: string, state: BlankRow['state'] }
 async function demoBlankPicker(tx: Transaction) {
   const held = new Set((await tx.select({ blankId: tickets.blankId }).from(tickets)).map(row => row.blankId))
   const waiting: (DemoBlankChoice & { format: string })[] = []
-  for (const blank of await tx.select().from(blanks).where(inArray(blanks.state, ['reserved', 'cut'])).orderBy(blanks.code)) {
-    if (!held.has(blank.id) && (await latestCurrentSurfaceTest(tx, blank))?.finalVerdict === 'pass') waiting.push(blank)
+  // The demo's made cylinders are all of the shop's first wax (the recordings' and the messages' formula).
+  const { defaultId: waxFormulaId } = await shopWaxFormulas(tx)
+  const rows = await tx.select({ blank: blanks, formula: waxBatches.waxFormulaId }).from(blanks).innerJoin(waxBatches, eq(waxBatches.id, blanks.batchId))
+    .where(inArray(blanks.state, ['reserved', 'cut'])).orderBy(blanks.code)
+  for (const { blank, formula } of rows) {
+    if ((formula ?? waxFormulaId) === waxFormulaId && !held.has(blank.id) && (await latestCurrentSurfaceTest(tx, blank))?.finalVerdict === 'pass') waiting.push(blank)
   }
-  const spare = { two_minute: await eligibleBlanks(tx, 'two_minute', { limit: 40 }), four_minute: await eligibleBlanks(tx, 'four_minute', { limit: 40 }) }
+  const spare = { two_minute: await eligibleBlanks(tx, 'two_minute', { limit: 40, waxFormulaId }), four_minute: await eligibleBlanks(tx, 'four_minute', { limit: 40, waxFormulaId }) }
   return (format: 'two_minute' | 'four_minute', stage: TicketStageValue): DemoBlankChoice | null => {
     const wanted = blankStateAt(stage)
     const index = waiting.findIndex(blank => blank.format === format && blank.state === wanted)

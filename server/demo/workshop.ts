@@ -5,8 +5,9 @@
 import { eq, inArray } from 'drizzle-orm'
 import type { CylinderFormat } from '#shared/utils/cylinder'
 import { blankLog, blanks, settings, surfaceTests, users, waxBatches } from '../db/schema'
-import { analyseSurfaceWav, makeSurfaceWav, surfaceThresholdsSchema, type SurfaceAnalysis, type SurfaceThresholds, type SurfaceWavOptions } from '../audio'
-import { blankStateAfterTest, isSurfaceOverrule, surfaceVerdictWithoutOverrule, type BlankState } from '#shared/utils/blankLifecycle'
+import { analyseSurfaceWav, encodeWav, makeSurfaceSignal, surfaceThresholdsSchema, type SurfaceThresholds, type SurfaceWavOptions } from '../audio'
+import { judgeSurfaceCoverage, storedVerdictWithoutOverrule, surfacePlayingTimeS, type JudgedSurfaceAnalysis } from '../utils/workshop/blankSurfaceTests'
+import { blankStateAfterTest, isSurfaceOverrule, type BlankState } from '#shared/utils/blankLifecycle'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import type { BlankReshaveLogData, BlankStateLogData } from '#shared/utils/workshopSchemas'
 import type { Database } from '../utils/platform/db'
@@ -15,15 +16,18 @@ import { blankReamingRecord, blankShavingRecord, drawBlankCodes } from '../utils
 import { getSetting } from '../utils/workshop/settings'
 
 const DAY_MS = 86_400_000
+// The lowest rate the surface-test reader accepts (22.05 kHz, mono, 16-bit) keeps the full-length takes small.
 const SAMPLE_RATE = 22_050
 // Short play-throughs keep seeding quick; 5 s at 160 rpm is over the 10 turns the rotary measure needs.
-const TEST_SECONDS = 5
+// Each take is synthesised as a segment of whole turns (16 turns at 160 rpm = 6 s) repeated to the
+// surface's full playing time, so every stored test covers its surface as a real play-through must.
+const SEGMENT_SECONDS = 6
 const RPM = 160
 
 const demoBatches = [
-  { code: 'WB-26-01', formula: 'stearic acid 70 / paraffin 20 / carnauba 10', pourDate: '2026-03-04', volumetricExpansionPerK: 760e-6, softeningPointC: 61, notes: 'The house black. Poured in the cool of the morning; a few blanks cracked where the mould was cold.' },
-  { code: 'WB-26-02', formula: 'stearic acid 80 / ceresin 12 / carnauba 8', pourDate: '2026-06-17', volumetricExpansionPerK: 785e-6, softeningPointC: 64, notes: 'Harder and quieter; a little more carnauba against summer heat.' },
-  { code: 'WB-26-03', formula: 'paraffin 55 / stearic acid 35 / beeswax 10', pourDate: '2026-10-08', volumetricExpansionPerK: 660e-6, softeningPointC: 52, notes: 'Amber practice wax for collectors with old cutting styli. Softens early: ship in cool weather only.' },
+  { code: 'WB-26-01', waxFormulaId: 'stearic_acid', formula: 'stearic acid 70 / paraffin 20 / carnauba 10', pourDate: '2026-03-04', volumetricExpansionPerK: 760e-6, softeningPointC: 61, notes: 'The house black. Poured in the cool of the morning; a few blanks cracked where the mould was cold.' },
+  { code: 'WB-26-02', waxFormulaId: 'stearic_acid', formula: 'stearic acid 80 / ceresin 12 / carnauba 8', pourDate: '2026-06-17', volumetricExpansionPerK: 785e-6, softeningPointC: 64, notes: 'Harder and quieter; a little more carnauba against summer heat.' },
+  { code: 'WB-26-03', waxFormulaId: 'paraffin', formula: 'paraffin 55 / stearic acid 35 / beeswax 10', pourDate: '2026-10-08', volumetricExpansionPerK: 660e-6, softeningPointC: 52, notes: 'Amber practice wax for collectors with old cutting styli. Softens early: ship in cool weather only.' },
 ] as const
 
 /** A synthetic play-through, and the maker's word on it when it differs from the computed verdict. */
@@ -56,6 +60,8 @@ interface DemoBlank {
   overReamed?: boolean
   /** Only the first set of reamings done so far. */
   partlyReamed?: boolean
+  /** Its surface test is from long ago: stale, to be tested again. */
+  staleTest?: boolean
 }
 
 const two = 'two_minute' as const
@@ -70,7 +76,7 @@ const demoBlankPlan: DemoBlank[] = [
   { batch: 0, format: four, surfaces: [loud, quiet], end: 'tested', location: rack(2) },
   { batch: 0, format: two, surfaces: [clicky], end: 'tested', location: 'Reshave tray' },
   { batch: 0, format: four, surfaces: [quiet], end: 'shipped', location: 'Shipped' },
-  { batch: 0, format: four, surfaces: [quiet], end: 'tested', location: rack(2) },
+  { batch: 0, format: four, surfaces: [quiet], end: 'tested', location: rack(2), staleTest: true },
   { batch: 0, format: two, surfaces: [wobbly, wobbly], end: 'scrapped', location: 'Remelt pot', scrapReason: 'Swishes on every turn after two surfaces: the bore sits off centre. Remelt.' },
   { batch: 0, format: four, surfaces: [quiet], end: 'tested', location: rack(2) },
   { batch: 0, format: two, surfaces: [quiet], end: 'cut', location: 'Cutting bench' },
@@ -118,21 +124,46 @@ interface LogDraft {
 
 interface TestDraft {
   surface: number
-  bytes: Uint8Array
-  analysis: SurfaceAnalysis
+  take: DemoTake
+  analysis: JudgedSurfaceAnalysis
   finalVerdict: 'pass' | 'fail'
   overruleReason: string | null
   listeningNotes: string
   at: Date
 }
 
+interface DemoTake { key: string, bytes: Uint8Array, analysis: JudgedSurfaceAnalysis }
+
+/**
+ * A full-length play-through of one kind of demo surface on one format, made and analysed once and
+ * shared by every demo test of that kind (the file too), so the seed stays quick.
+ */
+function demoTakeMaker(engine: EngineSettings, thresholds: SurfaceThresholds) {
+  const takes = new Map<string, DemoTake>()
+  return (surface: DemoSurface, format: CylinderFormat): DemoTake => {
+    const key = `${format}-${JSON.stringify(surface.sound)}`
+    const known = takes.get(key)
+    if (known) return known
+    const segment = makeSurfaceSignal({ seconds: SEGMENT_SECONDS, sampleRate: SAMPLE_RATE, rpm: RPM, seed: 1000 + takes.size, ...surface.sound }).samples
+    const repeats = Math.ceil(surfacePlayingTimeS(format, RPM, engine) / SEGMENT_SECONDS)
+    const samples = new Float32Array(segment.length * repeats)
+    for (let i = 0; i < repeats; i++) samples.set(segment, i * segment.length)
+    const bytes = encodeWav(samples, { sampleRate: SAMPLE_RATE })
+    const analysis = judgeSurfaceCoverage(analyseSurfaceWav(bytes, { rpm: RPM, thresholds }), format, RPM, engine, thresholds)
+    const take = { key: `${takes.size + 1}-${format}`, bytes, analysis }
+    takes.set(key, take)
+    return take
+  }
+}
+
 /**
  * One blank's story worked out in memory, back-dated from its batch's pour date: the state it ends
  * in, its log and its surface tests (analysed here). The seed then writes all blanks in a few inserts.
  */
-function demoBlankStory(plan: DemoBlank, index: number, castAt: Date, castDiameterIn: number, engine: EngineSettings, thresholds: SurfaceThresholds) {
+function demoBlankStory(plan: DemoBlank, index: number, castAt: Date, castDiameterIn: number, engine: EngineSettings, takeOf: ReturnType<typeof demoTakeMaker>, now: Date) {
   let step = 0
-  const at = () => new Date(castAt.getTime() + (step += 1) * DAY_MS)
+  let clock = castAt.getTime()
+  const at = () => new Date(clock + (step += 1) * DAY_MS)
   const story = { state: 'cast' as BlankState, diameterIn: castDiameterIn, surfacesUsed: 0, updatedAt: castAt, log: [] as LogDraft[], tests: [] as TestDraft[] }
   const log = (kind: LogDraft['kind'], data: object, when: Date) => story.log.push({ kind, data, at: when })
   const move = (to: BlankState, reason: string, when = at()) => {
@@ -175,6 +206,15 @@ function demoBlankStory(plan: DemoBlank, index: number, castAt: Date, castDiamet
   story.diameterIn = shaving.diameterAfterIn
   move('shaved', 'surface 1 shaved', when)
 
+  // The blank waits shaved until a few weeks ago, so that its surface test is recent (a pass goes stale
+  // after the shop's passMaxAgeDays); a blank marked `staleTest` keeps its test from long ago.
+  if (plan.surfaces && !plan.staleTest) {
+    const recent = now.getTime() - (60 - (index % 40)) * DAY_MS
+    if (recent > clock + step * DAY_MS) {
+      clock = recent
+      step = 0
+    }
+  }
   for (const [n, surface] of (plan.surfaces ?? []).entries()) {
     if (n > 0) {
       // A new surface after the last one was heard and failed.
@@ -186,12 +226,13 @@ function demoBlankStory(plan: DemoBlank, index: number, castAt: Date, castDiamet
       story.surfacesUsed += 1
       move('shaved', `reshaved: surface ${story.surfacesUsed} spent`, when)
     }
-    const bytes = makeSurfaceWav({ seconds: TEST_SECONDS, sampleRate: SAMPLE_RATE, rpm: RPM, seed: 1000 + index * 10 + n, ...surface.sound })
-    const analysis = analyseSurfaceWav(bytes, { rpm: RPM, thresholds })
-    const finalVerdict = surface.overrule?.verdict ?? surfaceVerdictWithoutOverrule(analysis.verdict)
+    const take = takeOf(surface, plan.format)
+    const analysis = take.analysis
+    if (analysis.verdict === 'incomplete') throw new Error('a demo take must cover its surface')
+    const finalVerdict = surface.overrule?.verdict ?? storedVerdictWithoutOverrule(analysis.verdict) as 'pass' | 'fail'
     const overruled = isSurfaceOverrule(analysis.verdict, finalVerdict)
     when = at()
-    story.tests.push({ surface: story.surfacesUsed + 1, bytes, analysis, finalVerdict, overruleReason: overruled ? surface.overrule!.reason : null, listeningNotes: surface.notes ?? '', at: when })
+    story.tests.push({ surface: story.surfacesUsed + 1, take, analysis, finalVerdict, overruleReason: overruled ? surface.overrule!.reason : null, listeningNotes: surface.notes ?? '', at: when })
     move(blankStateAfterTest(finalVerdict), `surface ${story.surfacesUsed + 1} tested: ${finalVerdict}${overruled ? ' (computed verdict overruled)' : ''}`, when)
   }
 
@@ -217,11 +258,13 @@ export async function seedDemoWorkshop(db: Database) {
   const thresholds = await getSetting('surface', db)
   const [maker] = await db.select({ id: users.id }).from(users).where(eq(users.role, 'maker')).orderBy(users.id).limit(1)
   const makerId = maker?.id ?? null
+  const takeOf = demoTakeMaker(engine, thresholds)
+  const now = new Date()
   const stories = demoBlankPlan.map((plan, index) => {
     const castAt = new Date(Date.parse(`${demoBatches[plan.batch].pourDate}T08:00:00Z`) + DAY_MS + index * 3_600_000)
     // As cast, a little over the standard 2.19 in so that shaving has something to take.
     const castDiameterIn = toTenThousandths(2.204 + (index % 5) * 0.001)
-    return { plan, castAt, story: demoBlankStory(plan, index, castAt, castDiameterIn, engine, thresholds) }
+    return { plan, castAt, story: demoBlankStory(plan, index, castAt, castDiameterIn, engine, takeOf, now) }
   })
 
   await db.transaction(async (tx) => {
@@ -246,13 +289,16 @@ export async function seedDemoWorkshop(db: Database) {
       at: entry.at,
     }))))
     const tests: (typeof surfaceTests.$inferInsert)[] = []
+    const fileOf = new Map<string, string>()
     for (const [index, { story }] of stories.entries()) {
       for (const test of story.tests) {
-        const file = await storeFile(tx, { data: test.bytes, mime: 'audio/wav', purpose: 'surface_test', originalName: `${rows[index]!.code}-surface-${test.surface}.wav`, isPublic: false, uploadedBy: makerId })
+        // One stored file per kind of demo take, shared by the tests that used it.
+        const fileId = fileOf.get(test.take.key) ?? (await storeFile(tx, { data: test.take.bytes, mime: 'audio/wav', purpose: 'surface_test', originalName: `demo-surface-${test.take.key}.wav`, isPublic: false, uploadedBy: makerId })).id
+        fileOf.set(test.take.key, fileId)
         tests.push({
           blankId: rows[index]!.id,
           surface: test.surface,
-          fileId: file.id,
+          fileId,
           rpm: RPM,
           figures: test.analysis,
           aWeightedDbfs: test.analysis.aWeightedDbfs,

@@ -77,6 +77,8 @@ export const productFields = z.object({
     .refine(ids => new Set(ids).size === ids.length, 'photoFileIds: each photo once'),
   sampleFileId: fileId('sampleFileId').nullable(),
   hidden: z.boolean({ error: 'hidden must be true or false' }),
+  /** The wax formula of the shop's list (Workshop figures) a made cylinder is cut on; null: the shop's first. */
+  waxFormulaId: z.string({ error: 'waxFormulaId must be text' }).trim().min(1, 'waxFormulaId is empty').max(40, 'waxFormulaId is too long').nullable(),
 })
 
 export type ProductFields = z.output<typeof productFields>
@@ -145,6 +147,7 @@ export const productCreateSchema = productFields
     photoFileIds: productFields.shape.photoFileIds.default(productDefaults.photoFileIds),
     sampleFileId: productFields.shape.sampleFileId.default(productDefaults.sampleFileId),
     hidden: productFields.shape.hidden.default(productDefaults.hidden),
+    waxFormulaId: productFields.shape.waxFormulaId.default(null),
   })
   .superRefine(addProblems)
 

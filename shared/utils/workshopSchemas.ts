@@ -30,10 +30,13 @@ export const waxBatchFields = z.object({
   volumetricExpansionPerK: numberInputField('volumetricExpansionPerK', { positive: true, max: 0.01 }),
   softeningPointC: numberInputField('softeningPointC', { min: 0, max: 200 }).nullable(),
   notes: workshopText('notes', 2000),
+  /** The wax formula of the shop's list (Workshop figures) the batch was cast from; null: the shop's first. */
+  waxFormulaId: z.string({ error: 'waxFormulaId must be text' }).trim().min(1, 'waxFormulaId is empty').max(40, 'waxFormulaId is too long').nullable(),
 })
 
 export const waxBatchCreateSchema = waxBatchFields.extend({
   softeningPointC: waxBatchFields.shape.softeningPointC.default(null),
+  waxFormulaId: waxBatchFields.shape.waxFormulaId.default(null),
   notes: waxBatchFields.shape.notes.default(''),
 })
 export type WaxBatchCreateInput = z.input<typeof waxBatchCreateSchema>
@@ -231,8 +234,11 @@ export interface SurfaceFiguresView {
   rotaryDetected: boolean
   clickCount: number
   clicksPerMinute: number
-  verdict: 'pass' | 'marginal' | 'fail'
+  /** `incomplete`: the take covers too little of the surface's playing time (the reason comes first). */
+  verdict: 'pass' | 'marginal' | 'fail' | 'incomplete'
   reasons: string[]
+  /** How much of the surface's playing time the take covers (when the format is known). */
+  coverage?: { durationS: number, playingTimeS: number, percent: number, required: number, complete: boolean }
   spectrum: { hz: number, db: number }[]
   envelope: number[]
   envelopeSeconds: number
@@ -244,8 +250,10 @@ export interface SurfaceTestView {
   surface: number
   rpm: number
   fileUrl: string | null
-  computedVerdict: 'pass' | 'marginal' | 'fail'
-  finalVerdict: 'pass' | 'fail'
+  computedVerdict: 'pass' | 'marginal' | 'fail' | 'incomplete'
+  finalVerdict: 'pass' | 'fail' | 'incomplete'
+  /** A pass older than the shop's passMaxAgeDays: to be tested again before it is cut. */
+  stale: boolean
   overruled: boolean
   overruleReason: string | null
   listeningNotes: string

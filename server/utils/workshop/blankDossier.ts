@@ -9,6 +9,7 @@ import type { Database } from '../platform/db'
  */
 export async function blankDossier(db: Database, code: string) {
   const settings = await getSetting('engine', db)
+  const { passMaxAgeDays } = await getSetting('surface', db)
   const blank = await findBlankByCode(db, code)
   // Every blank is poured from a batch (a foreign key), so the batch is there.
   const batch = (await db.select().from(waxBatches).where(eq(waxBatches.id, blank.batchId)))[0]!
@@ -57,7 +58,7 @@ export async function blankDossier(db: Database, code: string) {
     shavings,
     reshaves,
     history,
-    surfaceTests: tests.map(({ test, by }) => surfaceTestView(test, by)),
+    surfaceTests: tests.map(({ test, by }) => surfaceTestView(test, by, passMaxAgeDays)),
     tickets: ticketRows,
     testCuts: cuts,
     next: {

@@ -1,6 +1,8 @@
 import type { ZodType } from 'zod'
 import { surfaceTests } from '../../db/schema'
-import { analyseSurfaceWav, AudioInputError, type SurfaceAnalysis, type SurfaceAnalysisOptions } from '../../audio'
+import { analyseSurfaceWav, AudioInputError, incompleteCoverageReason, surfaceCoverage, type SurfaceAnalysis, type SurfaceAnalysisOptions, type SurfaceThresholds } from '../../audio'
+import { cylinderFormatTable, playingTimeMinutes, type CylinderFormat } from '#shared/utils/cylinder'
+import type { EngineSettings } from '#shared/utils/engineSettings'
 import type { BlankRow, SurfaceTestRow } from '#shared/types/rows'
 import type { Transaction } from '../platform/db'
 
@@ -44,9 +46,44 @@ export function analyseSurfaceUpload(bytes: Uint8Array, options: SurfaceAnalysis
   }
 }
 
+/** A surface analysis judged against the surface it should cover: `incomplete` when the take is too short. */
+export type JudgedSurfaceAnalysis = Omit<SurfaceAnalysis, 'verdict'> & {
+  verdict: SurfaceAnalysis['verdict'] | 'incomplete'
+  coverage: ReturnType<typeof surfaceCoverage>
+}
+
+/**
+ * The playing time of a format's surface at the test speed, in seconds: the shop's recordable length ×
+ * grooves per inch ÷ rpm (`playingTimeMinutes`, shared/utils/cylinder.ts).
+ */
+export function surfacePlayingTimeS(format: CylinderFormat, rpm: number, engine: EngineSettings): number {
+  return playingTimeMinutes(engine.formats[format].recordableLengthIn, cylinderFormatTable[format].groovesPerInch, rpm) * 60
+}
+
+/**
+ * Checks that the take covers at least the shop's `coveragePercent` of the surface's playing time; a
+ * shorter one is incomplete whatever its figures, with the reason first.
+ */
+export function judgeSurfaceCoverage(analysis: SurfaceAnalysis, format: CylinderFormat, rpm: number, engine: EngineSettings, thresholds: SurfaceThresholds): JudgedSurfaceAnalysis {
+  const coverage = surfaceCoverage(analysis.durationS, surfacePlayingTimeS(format, rpm, engine), thresholds.coveragePercent)
+  if (coverage.complete) return { ...analysis, coverage }
+  return { ...analysis, coverage, verdict: 'incomplete', reasons: [incompleteCoverageReason(coverage), ...analysis.reasons] }
+}
+
+/** The verdict a test keeps unless overruled: incomplete stays incomplete, marginal passes. */
+export function storedVerdictWithoutOverrule(computed: JudgedSurfaceAnalysis['verdict']): 'pass' | 'fail' | 'incomplete' {
+  return computed === 'incomplete' ? 'incomplete' : surfaceVerdictWithoutOverrule(computed)
+}
+
+/** A pass older than the shop's `passMaxAgeDays` is stale: the blank is tested again before it is cut. */
+export function surfacePassIsStale(testedAt: Date | string, passMaxAgeDays: number, now = new Date()): boolean {
+  return now.getTime() - new Date(testedAt).getTime() > passMaxAgeDays * 86_400_000
+}
+
 /** A stored test as the blank's page shows it. */
-export function surfaceTestView(test: SurfaceTestRow, testedByName: string | null) {
+export function surfaceTestView(test: SurfaceTestRow, testedByName: string | null, passMaxAgeDays?: number) {
   return {
+    stale: test.finalVerdict === 'pass' && passMaxAgeDays !== undefined && surfacePassIsStale(test.testedAt, passMaxAgeDays),
     id: test.id,
     surface: test.surface,
     rpm: test.rpm,
@@ -56,7 +93,7 @@ export function surfaceTestView(test: SurfaceTestRow, testedByName: string | nul
     clicksPerMinute: test.clicksPerMinute,
     computedVerdict: test.computedVerdict,
     finalVerdict: test.finalVerdict,
-    overruled: isSurfaceOverrule(test.computedVerdict, test.finalVerdict),
+    overruled: test.computedVerdict !== 'incomplete' && test.finalVerdict !== 'incomplete' && isSurfaceOverrule(test.computedVerdict, test.finalVerdict),
     overruleReason: test.overruleReason,
     listeningNotes: test.listeningNotes,
     testedBy: testedByName,
@@ -69,8 +106,8 @@ export interface BlankSurfaceTestInput {
   bytes: Uint8Array
   fileName: string | undefined
   rpm: number
-  analysis: SurfaceAnalysis
-  finalVerdict: 'pass' | 'fail'
+  analysis: SurfaceAnalysis | JudgedSurfaceAnalysis
+  finalVerdict: 'pass' | 'fail' | 'incomplete'
   overruleReason: string | null
   listeningNotes: string
   byUserId: number | null
@@ -85,7 +122,10 @@ export interface BlankSurfaceTestInput {
 export async function recordBlankSurfaceTest(tx: Transaction, blank: BlankRow, input: BlankSurfaceTestInput): Promise<SurfaceTestRow> {
   const surface = blankCurrentSurface(blank.surfacesUsed)
   if (input.analysis.rotaryDb === null) throw new RangeError('a stored surface test needs a once-per-turn figure')
-  const overruled = isSurfaceOverrule(input.analysis.verdict, input.finalVerdict)
+  const incomplete = input.analysis.verdict === 'incomplete' || input.finalVerdict === 'incomplete'
+  const finalVerdict = incomplete ? 'incomplete' : input.finalVerdict as 'pass' | 'fail'
+  const computedVerdict = incomplete ? 'incomplete' : input.analysis.verdict as SurfaceAnalysis['verdict']
+  const overruled = !incomplete && isSurfaceOverrule(computedVerdict as SurfaceAnalysis['verdict'], finalVerdict as 'pass' | 'fail')
   const file = await storeFile(tx, {
     data: input.bytes,
     mime: 'audio/wav',
@@ -103,14 +143,16 @@ export async function recordBlankSurfaceTest(tx: Transaction, blank: BlankRow, i
     aWeightedDbfs: input.analysis.aWeightedDbfs,
     rotaryDb: input.analysis.rotaryDb,
     clicksPerMinute: input.analysis.clicksPerMinute,
-    computedVerdict: input.analysis.verdict,
-    finalVerdict: input.finalVerdict,
+    computedVerdict,
+    finalVerdict,
     overruleReason: overruled ? input.overruleReason : null,
     listeningNotes: input.listeningNotes,
     testedBy: input.byUserId,
     ...(input.at ? { testedAt: input.at } : {}),
   }).returning()
-  const reason = `surface ${surface} tested: ${input.finalVerdict}${overruled ? ' (computed verdict overruled)' : ''}`
-  await changeBlank(tx, blank, { state: blankStateAfterTest(input.finalVerdict) }, reason, input.byUserId, input.at)
+  const reason = `surface ${surface} tested: ${finalVerdict}${overruled ? ' (computed verdict overruled)' : ''}`
+  // An incomplete take judges nothing: the surface is back to shaved, waiting for a full play-through.
+  const state = finalVerdict === 'incomplete' ? 'shaved' as const : blankStateAfterTest(finalVerdict)
+  await changeBlank(tx, blank, { state }, reason, input.byUserId, input.at)
   return row!
 }

@@ -194,9 +194,9 @@ export async function listBlankRegister(db: Database, query: BlankRegisterQuery,
     .limit(pageSize).offset(limit ? 0 : (query.page - 1) * pageSize)
   const [total] = await db.select({ n: count() }).from(blanks).innerJoin(waxBatches, eq(waxBatches.id, blanks.batchId)).where(where)
 
-  const latest = new Map<number, { finalVerdict: 'pass' | 'fail', aWeightedDbfs: number }>()
+  const latest = new Map<number, { finalVerdict: 'pass' | 'fail' | 'incomplete', aWeightedDbfs: number, testedAt: Date }>()
   if (rows.length > 0) {
-    const tests = await db.selectDistinctOn([surfaceTests.blankId], { blankId: surfaceTests.blankId, finalVerdict: surfaceTests.finalVerdict, aWeightedDbfs: surfaceTests.aWeightedDbfs })
+    const tests = await db.selectDistinctOn([surfaceTests.blankId], { blankId: surfaceTests.blankId, finalVerdict: surfaceTests.finalVerdict, aWeightedDbfs: surfaceTests.aWeightedDbfs, testedAt: surfaceTests.testedAt })
       .from(surfaceTests).innerJoin(blanks, eq(blanks.id, surfaceTests.blankId))
       .where(and(inArray(surfaceTests.blankId, rows.map(row => row.id)), eq(surfaceTests.surface, sql`${blanks.surfacesUsed} + 1`)))
       .orderBy(surfaceTests.blankId, desc(surfaceTests.testedAt), desc(surfaceTests.id))
@@ -204,6 +204,7 @@ export async function listBlankRegister(db: Database, query: BlankRegisterQuery,
   }
 
   const { minimumDiameterIn, depthPerSurfaceIn } = settings.shaving
+  const { passMaxAgeDays } = await getSetting('surface', db)
   return {
     total: total?.n ?? 0,
     page: query.page,
@@ -212,6 +213,8 @@ export async function listBlankRegister(db: Database, query: BlankRegisterQuery,
       ...row,
       surfacesLeft: blankSurfacesLeft(row.diameterIn, minimumDiameterIn, depthPerSurfaceIn).surfacesLeft,
       latestTest: latest.get(id) ?? null,
+      // A pass older than the shop's passMaxAgeDays: shown as stale, to be tested again.
+      staleTest: latest.get(id)?.finalVerdict === 'pass' && surfacePassIsStale(latest.get(id)!.testedAt, passMaxAgeDays),
     })),
   }
 }

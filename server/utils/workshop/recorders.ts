@@ -52,6 +52,8 @@ export interface RankedRecorder {
   stylus: string
   horn: string
   inService: boolean
+  /** Good; its latest test cut (within the ranking window) failed; or out of service. */
+  standing: RecorderStanding
   rank: number | null
   cutsConsidered: number
   medianAWeightedDbfs: number | null
@@ -59,10 +61,18 @@ export interface RankedRecorder {
   lastCutAt: Date | null
 }
 
+export type RecorderStanding = 'good' | 'last_cuts_failed' | 'out_of_service'
+
+/** Out of service first; else a failed latest test cut puts a recorder in trouble until a good cut follows. */
+export function recorderStanding(inService: boolean, latestCutVerdicts: string[]): RecorderStanding {
+  if (!inService) return 'out_of_service'
+  return latestCutVerdicts[0] === 'fail' ? 'last_cuts_failed' : 'good'
+}
+
 export async function rankRecorders(db: Db, now = new Date()): Promise<RankedRecorder[]> {
   const since = new Date(now.getTime() - recorderRanking.windowDays * 86_400_000)
   const all = await db.select().from(recorders).orderBy(recorders.name)
-  const cuts = await db.select({ recorderId: testCuts.recorderId, aWeightedDbfs: testCuts.aWeightedDbfs, clicksPerMinute: testCuts.clicksPerMinute, cutAt: testCuts.cutAt })
+  const cuts = await db.select({ recorderId: testCuts.recorderId, aWeightedDbfs: testCuts.aWeightedDbfs, clicksPerMinute: testCuts.clicksPerMinute, cutAt: testCuts.cutAt, verdict: testCuts.verdict })
     .from(testCuts).where(gte(testCuts.cutAt, since)).orderBy(desc(testCuts.cutAt), desc(testCuts.id))
   const recent = new Map<number, typeof cuts>()
   for (const cut of cuts) {
@@ -78,6 +88,7 @@ export async function rankRecorders(db: Db, now = new Date()): Promise<RankedRec
       stylus: recorder.stylus,
       horn: recorder.horn,
       inService: recorder.inService,
+      standing: recorderStanding(recorder.inService, list.map(cut => cut.verdict)),
       rank: null,
       cutsConsidered: list.length,
       medianAWeightedDbfs: list.length ? median(list.map(cut => cut.aWeightedDbfs)) : null,
@@ -97,11 +108,11 @@ export async function rankRecorders(db: Db, now = new Date()): Promise<RankedRec
   return [...ranked, ...rows.filter(row => row.medianAWeightedDbfs === null)]
 }
 
-/** The recorder a ticket should be cut with: the best-ranked in service, else any in service. */
+/** The recorder a ticket should be cut with: the best-ranked in good standing, else any in good standing. */
 export function suggestedRecorder(ranking: RankedRecorder[]): { id: number, name: string, reason: string } | null {
-  const best = ranking.find(row => row.inService && row.rank !== null)
+  const best = ranking.find(row => row.standing === 'good' && row.rank !== null)
   if (best) return { id: best.id, name: best.name, reason: `ranked ${best.rank} by its recent test cuts, median ${best.medianAWeightedDbfs!.toFixed(1).replace('-', '−')} dBFS A-weighted` }
-  const any = ranking.find(row => row.inService)
+  const any = ranking.find(row => row.standing === 'good')
   return any ? { id: any.id, name: any.name, reason: 'in service; no recent test cuts to rank it by' } : null
 }
 

@@ -1,5 +1,5 @@
-import { and, asc, desc, eq, ne, sql } from 'drizzle-orm'
-import { blanks, orderItems, orders, recorders, surfaceTests, testCuts, ticketEvents, tickets, users, waxBatches } from '../../db/schema'
+import { and, asc, desc, eq, gte, ne, sql } from 'drizzle-orm'
+import { blanks, orderItems, orders, products, recorders, surfaceTests, testCuts, ticketEvents, tickets, users, waxBatches } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
@@ -98,10 +98,29 @@ export async function openTicketHoldingBlank(db: Db, blankId: number, exceptTick
 }
 
 /**
- * Blanks a ticket of `format` may take: state tested_pass, the latest test of the current surface
- * passed, and no open ticket holds it. Quietest first. The same rule the assignment enforces.
+ * The wax the ticket's cylinder is made of: the catalogue item's formula; a personal message (or an
+ * item without one) takes the shop's first formula.
  */
-export async function eligibleBlanks(db: Db, format: BlankRow['format'], options: { code?: string, limit?: number } = {}) {
+export async function ticketWantedFormula(db: Db, ticket: Pick<Ticket, 'orderItemId'>): Promise<string> {
+  const [row] = await db.select({ kind: orderItems.kind, formula: products.waxFormulaId }).from(orderItems)
+    .leftJoin(products, eq(products.id, orderItems.productId)).where(eq(orderItems.id, ticket.orderItemId))
+  const { defaultId } = await shopWaxFormulas(db)
+  return row?.kind !== 'custom' && row?.formula ? row.formula : defaultId
+}
+
+/** The oldest a passing test may be and still count (the shop's `passMaxAgeDays`). */
+async function freshPassSince(db: Db): Promise<Date> {
+  const { passMaxAgeDays } = await getSetting('surface', db)
+  return new Date(Date.now() - passMaxAgeDays * 86_400_000)
+}
+
+/**
+ * Blanks a ticket of `format` (and, when given, of that wax formula) may take: state tested_pass, the
+ * latest test of the current surface passed within the shop's `passMaxAgeDays`, and no open ticket holds
+ * it. Quietest first. The same rule the assignment enforces. A batch without a formula counts as the
+ * shop's first.
+ */
+export async function eligibleBlanks(db: Db, format: BlankRow['format'], options: { code?: string, limit?: number, waxFormulaId?: string } = {}) {
   const latest = db.select({
     finalVerdict: surfaceTests.finalVerdict,
     aWeightedDbfs: surfaceTests.aWeightedDbfs,
@@ -112,6 +131,8 @@ export async function eligibleBlanks(db: Db, format: BlankRow['format'], options
     .where(and(eq(surfaceTests.blankId, blanks.id), eq(surfaceTests.surface, sql`${blanks.surfacesUsed} + 1`)))
     .orderBy(desc(surfaceTests.testedAt), desc(surfaceTests.id)).limit(1).as('latest_test')
   const pattern = options.code ? containsPattern(options.code) : undefined
+  const { defaultId } = await shopWaxFormulas(db)
+  const formula = sql<string>`coalesce(${waxBatches.waxFormulaId}, ${defaultId})`
   return await db.select({
     id: blanks.id,
     code: blanks.code,
@@ -120,6 +141,7 @@ export async function eligibleBlanks(db: Db, format: BlankRow['format'], options
     surface: sql<number>`${blanks.surfacesUsed} + 1`,
     location: blanks.location,
     batchCode: waxBatches.code,
+    waxFormulaId: formula,
     aWeightedDbfs: latest.aWeightedDbfs,
     rotaryDb: latest.rotaryDb,
     clicksPerMinute: latest.clicksPerMinute,
@@ -131,6 +153,8 @@ export async function eligibleBlanks(db: Db, format: BlankRow['format'], options
       eq(blanks.format, format),
       eq(blanks.state, 'tested_pass'),
       eq(latest.finalVerdict, 'pass'),
+      gte(latest.testedAt, await freshPassSince(db)),
+      options.waxFormulaId ? sql`${formula} = ${options.waxFormulaId}` : undefined,
       sql`not exists (select 1 from ${tickets} where ${tickets.blankId} = ${blanks.id} and ${tickets.stage} <> 'done')`,
       pattern ? sql`${blanks.code} ilike ${pattern}` : undefined,
     ))
@@ -138,10 +162,31 @@ export async function eligibleBlanks(db: Db, format: BlankRow['format'], options
     .limit(options.limit ?? 50)
 }
 
-/** Why this blank may not go to this ticket (a sentence for a 409), or null. */
-async function blankRefusal(db: Db, ticket: Ticket, blank: BlankRow): Promise<string | null> {
-  if (blank.format !== ticket.format) {
-    return `Blank ${blank.code} is a ${blankFormatLabels[blank.format]} blank; ticket #${ticket.id} needs a ${blankFormatLabels[ticket.format]} one.`
+/** The blanks the ticket's picker offers: its format and its wax. */
+export async function eligibleBlanksForTicket(db: Db, ticketId: number, code?: string) {
+  const [ticket] = await db.select().from(tickets).where(eq(tickets.id, ticketId))
+  if (!ticket) throw ticketNotFound()
+  const waxFormulaId = await ticketWantedFormula(db, ticket)
+  const { label } = await shopWaxFormulas(db)
+  return { format: ticket.format, waxFormulaId, waxFormula: label(waxFormulaId), blanks: await eligibleBlanks(db, ticket.format, { code, waxFormulaId }) }
+}
+
+/**
+ * Why this blank may not go to this ticket (a sentence for a 409), or null. A blank of another format
+ * or wax than the order wants goes only with the maker's reason (`overrideReason`); a stale, incomplete
+ * or failed test never.
+ */
+async function blankRefusal(db: Db, ticket: Ticket, blank: BlankRow, overrideReason: string | undefined): Promise<string | null> {
+  const wanted = await ticketWantedFormula(db, ticket)
+  const { defaultId, label } = await shopWaxFormulas(db)
+  const [batch] = await db.select({ waxFormulaId: waxBatches.waxFormulaId }).from(waxBatches).where(eq(waxBatches.id, blank.batchId))
+  const blankFormula = batch?.waxFormulaId ?? defaultId
+  const unless = ' Give a reason (overrideReason) to use it all the same.'
+  if (blank.format !== ticket.format && !overrideReason) {
+    return `Blank ${blank.code} is a ${blankFormatLabels[blank.format]} blank; ticket #${ticket.id} needs a ${blankFormatLabels[ticket.format]} one of ${label(wanted)} wax.${unless}`
+  }
+  if (blankFormula !== wanted && !overrideReason) {
+    return `This order wants ${label(wanted)} wax; blank ${blank.code} is ${label(blankFormula)}.${unless}`
   }
   const holder = await openTicketHoldingBlank(db, blank.id, ticket.id)
   if (holder) return `Blank ${blank.code} is already held by ticket #${holder.id} (order ${holder.orderNumber}).`
@@ -151,8 +196,19 @@ async function blankRefusal(db: Db, ticket: Ticket, blank: BlankRow): Promise<st
   }
   const test = await latestCurrentSurfaceTest(db, blank)
   if (!test) return `Blank ${blank.code} has no surface test on its current surface (${blank.surfacesUsed + 1}): test it first.`
+  if (test.finalVerdict === 'incomplete') return `The latest test of blank ${blank.code}'s current surface (${blank.surfacesUsed + 1}) is incomplete: play the surface through to the end.`
   if (test.finalVerdict !== 'pass') return `The latest test of blank ${blank.code}'s current surface (${blank.surfacesUsed + 1}) failed.`
+  if (test.testedAt < await freshPassSince(db)) {
+    return `Blank ${blank.code} passed its surface test on ${test.testedAt.toISOString().slice(0, 10)}, longer ago than the shop's ${(await getSetting('surface', db)).passMaxAgeDays} days: it is stale, test it again.`
+  }
   return null
+}
+
+/** Whether the blank differs from what the order wants (format or wax), so that the override reason is kept. */
+async function blankIsOverride(db: Db, ticket: Ticket, blank: BlankRow): Promise<boolean> {
+  if (blank.format !== ticket.format) return true
+  const [batch] = await db.select({ waxFormulaId: waxBatches.waxFormulaId }).from(waxBatches).where(eq(waxBatches.id, blank.batchId))
+  return (batch?.waxFormulaId ?? (await shopWaxFormulas(db)).defaultId) !== await ticketWantedFormula(db, ticket)
 }
 
 function isOpenBlankViolation(error: unknown): boolean {
@@ -164,7 +220,7 @@ function isOpenBlankViolation(error: unknown): boolean {
  * checks give the reasons; the partial unique index `tickets_open_blank` is what makes two open
  * tickets holding one blank impossible, however the requests interleave.
  */
-export async function assignBlankToTicket(db: Database, ticketId: number, blankCode: string, actorUserId: number) {
+export async function assignBlankToTicket(db: Database, ticketId: number, blankCode: string, actorUserId: number, overrideReason?: string) {
   let blankId: number | undefined
   try {
     return await db.transaction(async (tx) => {
@@ -176,14 +232,16 @@ export async function assignBlankToTicket(db: Database, ticketId: number, blankC
       if (problem) throw conflictError(problem)
       const blank = await findBlankByCode(tx, blankCode, { field: 'blankCode' })
       blankId = blank.id
-      const refusal = await blankRefusal(tx, ticket, blank)
+      const refusal = await blankRefusal(tx, ticket, blank, overrideReason)
       if (refusal) throw conflictError(refusal)
+      // The reason is kept only when the blank is not what the order wants; a matching blank clears it.
+      const keptReason = overrideReason && await blankIsOverride(tx, ticket, blank) ? overrideReason : null
 
       const previous = ticket.blankId ? (await tx.select().from(blanks).where(eq(blanks.id, ticket.blankId)))[0] : undefined
-      await tx.update(tickets).set({ blankId: blank.id, stage: 'blank_assigned', updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
+      await tx.update(tickets).set({ blankId: blank.id, stage: 'blank_assigned', blankOverrideReason: keptReason, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
       const reserved = await moveBlank(tx, blank.id, { from: 'tested_pass', to: 'reserved', reason: `Reserved for ticket #${ticket.id}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
       if (!reserved) throw conflictError(`Blank ${blank.code} changed meanwhile; reload and choose again.`)
-      let note = `Blank ${blank.code} assigned.`
+      let note = `Blank ${blank.code} assigned${keptReason ? ` (not what the order wants: ${keptReason})` : ''}.`
       if (previous) {
         // An uncut blank goes back on the shelf; one carrying a rejected cut stays cut, for the register to deal with.
         await moveBlank(tx, previous.id, { from: 'reserved', to: 'tested_pass', reason: `Released from ticket #${ticket.id}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
@@ -191,7 +249,7 @@ export async function assignBlankToTicket(db: Database, ticketId: number, blankC
       }
       await logTicketEvent(tx, ticket.id, ticket.stage, 'blank_assigned', note, actorUserId)
       await syncOrderWithTickets(tx, ticket.orderId, actorUserId)
-      return { id: ticket.id, stage: 'blank_assigned' as const, blankCode: blank.code }
+      return { id: ticket.id, stage: 'blank_assigned' as const, blankCode: blank.code, overrideReason: keptReason }
     })
   }
   catch (error) {
@@ -232,6 +290,8 @@ export async function markTicketCut(tx: Transaction, ticket: Ticket, blank: Blan
   await tx.update(tickets).set({ stage: 'cut', recorderId: cut.recorderId, cutAt: cut.cutAt, cutTestId: cut.testCutId, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
   await moveBlank(tx, blank.id, { from: 'reserved', to: 'cut', reason: `Cut for ticket #${ticket.id} on ${cut.recorderName}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
   await logTicketEvent(tx, ticket.id, ticket.stage, 'cut', `Cut on ${blank.code} with ${cut.recorderName}${cut.testCutId ? ', with a test recording' : ''}.${cut.note ? ` ${cut.note}` : ''}`, actorUserId)
+  // The customer hears of it once per order item, however often it is cut again.
+  await queueCylinderCutMail(tx, ticket)
   await syncOrderWithTickets(tx, ticket.orderId, actorUserId)
 }
 
@@ -354,7 +414,8 @@ export async function ticketCertificate(db: Db, ticketId: number) {
       unit: ticket.unit,
       quantity: item.quantity,
       blank: { code: blank.code, diameterIn: blank.diameterIn, surface: blank.surfacesUsed + 1 },
-      batch: { code: batch.code, formula: batch.formula, pourDate: batch.pourDate, softeningPointC: batch.softeningPointC },
+      batch: { code: batch.code, formula: batch.formula, waxFormula: (await shopWaxFormulas(db)).label(batch.waxFormulaId ?? (await shopWaxFormulas(db)).defaultId), pourDate: batch.pourDate, softeningPointC: batch.softeningPointC },
+      blankOverrideReason: ticket.blankOverrideReason,
       surfaceTest: test && {
         testedAt: test.testedAt, rpm: test.rpm, aWeightedDbfs: test.aWeightedDbfs, rotaryDb: test.rotaryDb, clicksPerMinute: test.clicksPerMinute,
         computedVerdict: test.computedVerdict, finalVerdict: test.finalVerdict, overruleReason: test.overruleReason,

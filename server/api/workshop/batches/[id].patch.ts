@@ -7,6 +7,7 @@ export default defineEventHandler(async (event) => {
   const { id } = paramsWith(event, waxBatchIdParamsSchema)
   const patch = await readBodyWith(event, waxBatchPatchSchema)
   const db = await useDB()
+  await checkWaxFormulaId(db, patch.waxFormulaId)
   await findWaxBatch(db, id)
   try {
     const [batch] = await db.update(waxBatches).set(patch).where(eq(waxBatches.id, id)).returning()

@@ -5,6 +5,7 @@ export default defineEventHandler(async (event) => {
   const maker = await requireRole(event, 'maker')
   const input = await readBodyWith(event, productCreateSchema)
   const db = await useDB()
+  await checkWaxFormulaId(db, input.waxFormulaId)
   const created = await db.transaction(async (tx) => {
     const [taken] = await tx.select({ id: products.id }).from(products).where(eq(products.slug, input.slug)).limit(1)
     if (taken) throw slugTaken(input.slug)

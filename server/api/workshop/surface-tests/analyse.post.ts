@@ -1,12 +1,20 @@
+import { z } from 'zod'
+
+const formatFieldSchema = z.object({ format: z.enum(cylinderFormats, { error: 'format must be two_minute or four_minute' }).optional() })
+
 /**
  * Analyses a surface-test WAV without storing anything (multipart `file`, optional `rpm`), against
- * the shop's `surface` limits. Too large by its declared size → 413 before the body is read; a file
+ * the shop's `surface` limits; with `format`, also whether the take covers the surface. Too large by its declared size → 413 before the body is read; a file
  * the engine cannot read → its status (400, 413, 415, 422) with its message.
  */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')
   const upload = await readUploadForm(event, 'surface_test', { required: 'choose the WAV file of the play-through' })
-  const { rpm } = surfaceFieldsWith(upload.fields, surfaceAnalyseFieldsSchema)
+  const { format, ...fields } = upload.fields
+  const { rpm } = surfaceFieldsWith(fields, surfaceAnalyseFieldsSchema)
+  const { format: cylinder } = surfaceFieldsWith({ format: format ?? '' }, formatFieldSchema)
   const thresholds = await getSetting('surface')
-  return analyseSurfaceUpload(upload.file!.data, { rpm, thresholds })
+  const analysis = analyseSurfaceUpload(upload.file!.data, { rpm, thresholds })
+  // Given the format, a take too short to cover the surface is judged incomplete, as on a blank.
+  return cylinder ? judgeSurfaceCoverage(analysis, cylinder, rpm, await getSetting('engine'), thresholds) : analysis
 })

@@ -11,6 +11,7 @@ export default defineEventHandler(async (event) => {
   const { id } = paramsWith(event, idParamsSchema)
   const { stockSeen, ...changes } = await readBodyWith(event, productPatchSchema)
   const db = await useDB()
+  await checkWaxFormulaId(db, changes.waxFormulaId)
   return await db.transaction(async (tx) => {
     const [current] = await tx.select().from(products).where(eq(products.id, id)).for('update')
     if (!current || current.kind === 'custom') throw notFoundError('No such product in the catalogue.')

@@ -23,6 +23,7 @@ export default defineEventHandler(async (event) => {
     kind,
     order: { number: order.number, status: order.status, customer: order.shippingAddress.name, paidAt: order.paidAt },
     item: { title: item.title, quantity: item.quantity, format: item.format },
+    wantedWax: (await shopWaxFormulas(db)).label(await ticketWantedFormula(db, ticket)),
     blank: blankRow ? { code: blankRow.blank.code, state: blankRow.blank.state, diameterIn: blankRow.blank.diameterIn, surface: blankRow.blank.surfacesUsed + 1, batchCode: blankRow.batchCode } : null,
     surfaceTest: surfaceTest && { aWeightedDbfs: surfaceTest.aWeightedDbfs, rotaryDb: surfaceTest.rotaryDb, clicksPerMinute: surfaceTest.clicksPerMinute, finalVerdict: surfaceTest.finalVerdict, testedAt: surfaceTest.testedAt },
     recorder: recorder ? { id: recorder.id, name: recorder.name } : null,

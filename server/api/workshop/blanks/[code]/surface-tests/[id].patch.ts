@@ -14,8 +14,11 @@ export default defineEventHandler(async (event) => {
     const blank = await lockBlankByCode(tx, code)
     const [test] = await tx.select().from(surfaceTests).where(and(eq(surfaceTests.id, id), eq(surfaceTests.blankId, blank.id))).limit(1)
     if (!test) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `Blank ${code} has no surface test #${id}.` })
+    if (test.computedVerdict === 'incomplete' && patch.finalVerdict !== undefined) {
+      throw fieldError('finalVerdict', 'an incomplete play-through cannot be overruled: test the surface again, playing it through to the end')
+    }
     const finalVerdict = patch.finalVerdict ?? test.finalVerdict
-    const overruled = isSurfaceOverrule(test.computedVerdict, finalVerdict)
+    const overruled = test.computedVerdict !== 'incomplete' && finalVerdict !== 'incomplete' && isSurfaceOverrule(test.computedVerdict, finalVerdict)
     const reason = patch.overruleReason === undefined ? test.overruleReason : patch.overruleReason
     if (overruled && !reason) throw fieldError('overruleReason', SURFACE_OVERRULE_REASON_REQUIRED)
 
@@ -27,7 +30,7 @@ export default defineEventHandler(async (event) => {
         throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${code}: test #${id} is not the latest test of the blank's current surface, so its verdict no longer decides anything; its notes can still be changed.` })
       }
       await assertBlankAction(tx, blank, 'surfaceTest')
-      await changeBlank(tx, blank, { state: blankStateAfterTest(finalVerdict) }, `surface ${test.surface}: verdict changed to ${finalVerdict}${overruled ? ` (overruled: ${reason})` : ''}`, maker.id)
+      await changeBlank(tx, blank, { state: blankStateAfterTest(finalVerdict as 'pass' | 'fail') }, `surface ${test.surface}: verdict changed to ${finalVerdict}${overruled ? ` (overruled: ${reason})` : ''}`, maker.id)
     }
     const [row] = await tx.update(surfaceTests).set({
       listeningNotes: patch.listeningNotes ?? test.listeningNotes,

@@ -9,17 +9,21 @@ export default defineEventHandler(async (event) => {
   const code = blankCodeParam(event)
   const db = await useDB()
   // Refuse before reading a large upload when no test can be taken now; checked again when stored.
-  await assertBlankAction(db, await findBlankByCode(db, code), 'surfaceTest')
+  const found = await findBlankByCode(db, code)
+  await assertBlankAction(db, found, 'surfaceTest')
   const upload = await readUploadForm(event, 'surface_test', { required: 'choose the WAV file of the play-through' })
   const file = upload.file!
   const fields = surfaceFieldsWith(upload.fields, surfaceTestUploadFieldsSchema)
-  const analysis = analyseSurfaceUpload(file.data, { rpm: fields.rpm, thresholds: await getSetting('surface', db) })
+  const thresholds = await getSetting('surface', db)
+  // A take shorter than the shop's share of the surface's playing time is stored as incomplete.
+  const analysis = judgeSurfaceCoverage(analyseSurfaceUpload(file.data, { rpm: fields.rpm, thresholds }), found.format, fields.rpm, await getSetting('engine', db), thresholds)
   if (analysis.rotaryDb === null) {
     const seconds = Math.ceil((MIN_ROTATIONS_FOR_ROTARY * 60) / fields.rpm) + 1
     throw createError({ statusCode: 422, statusMessage: 'Unprocessable Content', message: `file: the recording is ${analysis.durationS.toFixed(1)} s long, too short to judge once-per-turn noise; record at least ${seconds} s of the play-through.`, data: { fields: { file: `record at least ${seconds} s` } } })
   }
-  const finalVerdict = fields.finalVerdict ?? surfaceVerdictWithoutOverrule(analysis.verdict)
-  const overruled = isSurfaceOverrule(analysis.verdict, finalVerdict)
+  if (analysis.verdict === 'incomplete' && fields.finalVerdict) throw fieldError('finalVerdict', `an incomplete play-through cannot be overruled: ${analysis.reasons[0]}`)
+  const finalVerdict = fields.finalVerdict ?? storedVerdictWithoutOverrule(analysis.verdict)
+  const overruled = analysis.verdict !== 'incomplete' && isSurfaceOverrule(analysis.verdict, finalVerdict as 'pass' | 'fail')
   if (overruled && !fields.overruleReason) throw fieldError('overruleReason', SURFACE_OVERRULE_REASON_REQUIRED)
 
   const test = await db.transaction(async (tx) => {
@@ -37,5 +41,5 @@ export default defineEventHandler(async (event) => {
     })
   })
   setResponseStatus(event, 201)
-  return surfaceTestView(test, maker.name)
+  return surfaceTestView(test, maker.name, thresholds.passMaxAgeDays)
 })
