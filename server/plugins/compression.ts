@@ -36,7 +36,10 @@ function asText(event: H3Event, body: unknown): { bytes: Buffer, type: string } 
 
 export default defineNitroPlugin((nitroApp) => {
   nitroApp.hooks.hook('beforeResponse', async (event, response) => {
-    if (event.method === 'HEAD' || event.node.res.headersSent) return
+    // The error page is rendered by an inner request to /__nuxt_error (with the visitor's headers and
+    // x-nuxt-error) whose answer the error handler reads back as text: compressing it, or the data it
+    // fetches, would send mangled bytes under a Content-Encoding header.
+    if (event.method === 'HEAD' || event.node.res.headersSent || event.path.startsWith('/__nuxt_error') || getRequestHeader(event, 'x-nuxt-error')) return
     const status = event.node.res.statusCode
     // Error answers are written by the error handler after this hook, as text: a compressed body would be mangled.
     if (status >= 400 || status === 206 || status === 204 || status === 304 || getResponseHeader(event, 'content-range') || getResponseHeader(event, 'content-encoding')) return
