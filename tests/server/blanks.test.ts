@@ -21,6 +21,8 @@ let batchId: number
 beforeAll(async () => {
   expect((await new Client().get('/api/health')).status).toBe(200)
   maker = await signedIn(account('maker').email, account('maker').password)
+  // These tests use short synthetic takes; the rule that a take covers the surface (coveragePercent) is tested in workshop-truth.test.ts.
+  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
   collector = await signedIn(account('collector').email, account('collector').password)
   shipper = await signedIn(account('shipper').email, account('shipper').password)
   const batch = await maker.post('/api/workshop/batches', {
@@ -183,7 +185,9 @@ describe('surface tests', () => {
     const engine = JSON.parse(JSON.stringify(analyseSurfaceWav(bytes, { rpm: 160 })))
     const dossier = await maker.get(`/api/workshop/blanks/${code}`)
     const [test] = dossier.body.surfaceTests
-    expect(test.figures).toEqual(engine)
+    // Plus how much of the surface the take covers: 8 s of the 4-minute surface's 285 s (3.8 in × 200 ÷ 160 rpm,
+    // shared/utils/cylinder.ts), judged against the 1 % these tests set.
+    expect(test.figures).toEqual({ ...engine, coverage: { durationS: 8, playingTimeS: 285, percent: 800 / 285, required: 1, complete: true } })
     expect(test).toMatchObject({
       surface: 1,
       rpm: 160,
@@ -524,7 +528,7 @@ describe('surface-test limits: GET/PUT /api/workshop/settings/surface', () => {
     const before = await maker.get(path)
     expect(before.status).toBe(200)
     // The shop defaults, documented in server/audio/verdict.ts (common practice, no source).
-    expect(before.body.defaults).toEqual(limits([-50, -44], [15, 25], [6, 15]))
+    expect(before.body.defaults).toEqual({ ...limits([-50, -44], [15, 25], [6, 15]), coveragePercent: 90, passMaxAgeDays: 90 })
     try {
       const bad: [unknown, string][] = [
         [limits([-50, -44], [30, 20], [6, 15]), 'rotaryDb.fail'],

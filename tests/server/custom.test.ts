@@ -29,6 +29,8 @@ const words = (count: number) => Array.from({ length: count }, () => 'word').joi
 beforeAll(async () => {
   expect((await new Client().get('/api/health')).status).toBe(200)
   maker = await signedIn(account('maker').email, account('maker').password)
+  // These tests use short synthetic takes; the rule that a take covers the surface (coveragePercent) is tested in workshop-truth.test.ts.
+  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
   collector = await signedIn(account('collector').email, account('collector').password)
   shipper = await signedIn(account('shipper').email, account('shipper').password)
   otherCollector = new Client()

@@ -33,6 +33,8 @@ const address = { name: 'Orla Fenwright', line1: '2 Cask Row', city: 'Lowmere', 
 
 beforeAll(async () => {
   maker = await signedIn(account('maker').email, account('maker').password)
+  // These tests use short synthetic takes; the rule that a take covers the surface (coveragePercent) is tested in workshop-truth.test.ts.
+  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
   shipper = await signedIn(account('shipper').email, account('shipper').password)
   customer = await signedIn(account('collector').email, account('collector').password)
   stranger = new Client()

@@ -77,6 +77,8 @@ function readPdf(name: string, bytes: Buffer): ReadPdf {
 
 beforeAll(async () => {
   maker = await signedIn(account('maker').email, account('maker').password)
+  // These tests use short synthetic takes; the rule that a take covers the surface (coveragePercent) is tested in workshop-truth.test.ts.
+  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
   shipper = await signedIn(account('shipper').email, account('shipper').password)
   collector = await signedIn(account('collector').email, account('collector').password)
   // The demo order waiting to be packed: a recorded cylinder cut to order on a tested blank.

@@ -23,6 +23,8 @@ const address = { name: 'Tamsin Orrell', line1: '4 Wick Lane', city: 'Lowmere', 
 beforeAll(async () => {
   expect((await new Client().get('/api/health')).status).toBe(200)
   maker = await signedIn(account('maker').email, account('maker').password)
+  // These tests use short synthetic takes; the rule that a take covers the surface (coveragePercent) is tested in workshop-truth.test.ts.
+  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
   collector = await signedIn(account('collector').email, account('collector').password)
   const batch = await maker.post('/api/workshop/batches', { code: 'TK-26-01', formula: 'stearic acid 75 / paraffin 15 / carnauba 10', pourDate: '2026-04-02', volumetricExpansionPerK: 0.00075, softeningPointC: 62 })
   expect(batch.status, JSON.stringify(batch.body)).toBe(201)
