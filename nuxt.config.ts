@@ -148,6 +148,11 @@ export default defineNuxtConfig({
   },
   // GW_BUILD_DIR / GW_OUTPUT_DIR let two builds of one checkout live side by side (e.g. a second worktree's tests).
   ...(process.env.GW_BUILD_DIR ? { buildDir: process.env.GW_BUILD_DIR } : {}),
+  experimental: {
+    // No client-side route rules are used (ours only set response headers), so the pages need not fetch the
+    // build manifest (/_nuxt/builds/meta) nor carry the code that reads it.
+    appManifest: false,
+  },
   nitro: {
     ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
     // The guides (content/guides/*.md) and the slip's fonts (server/assets/fonts) travel inside the built server.
@@ -166,6 +171,10 @@ export default defineNuxtConfig({
       // PGlite loads its WASM and data files next to its own module at run time.
       external: ['@electric-sql/pglite'],
     },
+  },
+  vite: {
+    // Every component is written with <script setup> / setup(): the Options API's runtime is left out of the bundle.
+    define: { __VUE_OPTIONS_API__: 'false' },
   },
   typescript: {
     strict: true,

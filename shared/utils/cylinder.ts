@@ -1,4 +1,6 @@
-import { MILLIMETRES_PER_INCH } from './length'
+// The inch is exactly 25.4 mm (as MILLIMETRES_PER_INCH in length.ts); not imported from there, because length.ts
+// brings the validation library with it and this file is loaded by the shop's public pages.
+const MILLIMETRES_PER_INCH = 25.4
 
 export const cylinderFormats = ['two_minute', 'four_minute'] as const
 export type CylinderFormat = (typeof cylinderFormats)[number]

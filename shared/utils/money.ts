@@ -3,6 +3,8 @@ import { cylinderFormatTable } from './cylinder'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
 import { parcelsForCylinders } from './packing'
+// Formatting and the minor-unit check live apart, free of the engine's settings schemas, for the shop's pages.
+import { assertMinorUnits, CartPricingError } from './moneyFormat'
 
 /*
  * Money is integer minor units (cents) of `settings.prices.currency` everywhere; every amount in and
@@ -11,18 +13,6 @@ import { parcelsForCylinders } from './packing'
  * of those line taxes. So, always and exactly: Σ line totals = subtotal, Σ line taxes = tax, and
  * total = subtotal + shipping + tax.
  */
-
-export class CartPricingError extends Error {
-  constructor(message: string) {
-    super(message)
-    this.name = 'CartPricingError'
-  }
-}
-
-export function assertMinorUnits(value: number, what: string): number {
-  if (!Number.isSafeInteger(value)) throw new CartPricingError(`${what} must be a whole number of minor units, got ${value}`)
-  return value
-}
 
 function assertQuantity(value: number, what: string): number {
   if (!Number.isSafeInteger(value) || value < 1) throw new CartPricingError(`${what} must be a whole number of 1 or more, got ${value}`)
@@ -154,14 +144,3 @@ export function priceCart(cart: CartInput, settings: EngineSettings = defaultEng
 }
 
 /** Digits after the decimal point in the currency's minor unit (2 for USD, 0 for JPY). */
-export function currencyMinorDigits(currency: string): number {
-  return new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2
-}
-
-/** `formatMoney(123456, 'USD', 'en-US')` → `$1,234.56`. */
-export function formatMoney(minor: number, currency: string, locale = 'en-US'): string {
-  assertMinorUnits(minor, 'amount')
-  const digits = currencyMinorDigits(currency)
-  return new Intl.NumberFormat(locale, { style: 'currency', currency, minimumFractionDigits: digits, maximumFractionDigits: digits })
-    .format(minor / 10 ** digits)
-}

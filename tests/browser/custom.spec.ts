@@ -7,7 +7,7 @@ import { expect, test, type APIRequestContext, type Browser, type Page } from '@
 import { makeSurfaceWav } from '../../server/audio/synth'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { messageFitForFormat } from '../../shared/utils/messageFit'
-import { formatMoney } from '../../shared/utils/money'
+import { formatMoney } from '../../shared/utils/moneyFormat'
 
 const shots = 'tests/browser/report'
 const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
@@ -54,7 +54,7 @@ async function signIn(page: Page, role: 'maker' | 'collector') {
   return account
 }
 
-const address = { name: 'Iris Quillfeather', line1: '3 Candle Row', city: 'Lowmere', postalCode: 'LM4 2CR', country: 'Fernland' }
+const address = { name: 'Iris Quillfeather', line1: '3 Candle Row', city: 'Lowmere', postalCode: 'LM4 2CR', region: 'OR', country: 'US' }
 
 test('the meter and the price on /custom are the quote\'s; a message too long or wished too early cannot be ordered', async ({ page }) => {
   const pageErrors: string[] = []
@@ -227,7 +227,7 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
   await page.locator('input[name="line1"]').fill(address.line1)
   await page.getByLabel('Postal code').fill(address.postalCode)
   await page.getByLabel('Town or city').fill(address.city)
-  await page.getByLabel('Country').fill(address.country)
+  await page.getByLabel('Country').selectOption(address.country)
   await expect(page.getByTestId('cart-total')).toContainText('$')
   await page.screenshot({ path: `${shots}/cart-message-desktop.png`, fullPage: true })
   await noSeriousAxe(page)

@@ -4,10 +4,9 @@ import { describe, expect, it } from 'vitest'
 import { cylinderFormats } from '../../shared/utils/cylinder'
 import { defaultEngineSettings, engineSettingsSchema } from '../../shared/utils/engineSettings'
 import type { EngineSettings } from '../../shared/utils/engineSettings'
+import { CartPricingError, formatMoney } from '../../shared/utils/moneyFormat'
 import {
-  CartPricingError,
   customMessagePriceComponents,
-  formatMoney,
   priceCart,
   shippingPriceMinor,
   taxOnAmountMinor,
