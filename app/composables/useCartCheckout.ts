@@ -4,8 +4,8 @@ import type { CheckoutForm } from '~/utils/checkoutFields'
 export interface CartChange { slug: string, kind: string, message: string }
 
 /**
- * The cart page's data: the server's quote for the cart (re-asked whenever the lines, the zone or the
- * tax region change), the changes the customer must accept, and the checkout form with its submit.
+ * The cart page's data: the server's quote for the cart (re-asked whenever the lines or the address's
+ * country or region change: the server decides the zone and tax from them), the changes the customer must accept, and the checkout form with its submit.
  */
 export function useCartCheckout() {
   const cart = useCartStore()
@@ -13,8 +13,6 @@ export function useCartCheckout() {
 
   const quote = ref<CartQuote | null>(null)
   const quoteError = ref('')
-  const zone = ref<string | undefined>()
-  const taxRegion = ref<string | undefined>()
   const pendingChanges = ref<CartChange[]>([])
   const { busy, errors, submit } = useFormSubmit()
   const form = reactive<CheckoutForm>({
@@ -31,7 +29,7 @@ export function useCartCheckout() {
   function fetchQuote() {
     return $fetch('/api/cart/quote', {
       method: 'POST',
-      body: { items: cart.lines.map(line => ({ slug: line.slug, qty: line.qty, seenUnitPriceMinor: line.seenUnitPriceMinor })), ...customMessagesBody(cart.messages), zone: zone.value, taxRegion: taxRegion.value },
+      body: { items: cart.lines.map(line => ({ slug: line.slug, qty: line.qty, seenUnitPriceMinor: line.seenUnitPriceMinor })), ...customMessagesBody(cart.messages), shipTo: { country: form.country || undefined, region: form.region || undefined } },
     })
   }
 
@@ -43,8 +41,6 @@ export function useCartCheckout() {
     }
     try {
       quote.value = await fetchQuote()
-      zone.value = quote.value.zone
-      taxRegion.value = quote.value.taxRegion
       pendingChanges.value = quote.value.changes
     }
     catch (error) {
@@ -60,7 +56,13 @@ export function useCartCheckout() {
 
   onMounted(refreshQuote)
   watch(() => [...cart.lines.map(line => `${line.slug}:${line.qty}`), ...cart.messages.map(message => message.key)].join(), refreshQuote)
-  watch([zone, taxRegion], refreshQuote)
+  watch(() => form.country, refreshQuote)
+  // The region is typed: ask again once the customer pauses.
+  let regionTimer: ReturnType<typeof setTimeout> | undefined
+  watch(() => form.region, () => {
+    clearTimeout(regionTimer)
+    regionTimer = setTimeout(refreshQuote, 400)
+  })
 
   function acceptChanges() {
     if (!quote.value) return
@@ -92,8 +94,6 @@ export function useCartCheckout() {
         ...customMessagesBody(cart.messages),
         email: form.email,
         shippingAddress: { name, line1, line2: line2 || undefined, city, region: region || undefined, postalCode, country },
-        zone: zone.value,
-        taxRegion: taxRegion.value,
       }
       const answer = await $fetch('/api/checkout', { method: 'POST', body: { ...body, checkoutKey: keyFor(body) } })
       window.location.assign(answer.url!)
@@ -116,7 +116,7 @@ export function useCartCheckout() {
 
   const holdMinutes = computed(() => quote.value?.holdMinutes ?? 30)
 
-  return { cart, quote, quoteError, zone, taxRegion, pendingChanges, acceptChanges, form, busy, errors, pay, holdMinutes }
+  return { cart, quote, quoteError, pendingChanges, acceptChanges, form, busy, errors, pay, holdMinutes }
 }
 
 /** The server's answer to `POST /api/cart/quote`. */

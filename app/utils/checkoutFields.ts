@@ -1,3 +1,5 @@
+import type { FieldOption } from '~/utils/formFields'
+
 /** The checkout form's fields, in the order they are shown: the first four one a line, the rest two a line. */
 export interface CheckoutField {
   name: 'email' | 'name' | 'line1' | 'line2' | 'postalCode' | 'city' | 'region' | 'country'
@@ -5,6 +7,8 @@ export interface CheckoutField {
   autocomplete: string
   type?: string
   required?: boolean
+  /** A choice from a list instead of typed text (the country). */
+  options?: () => FieldOption[]
 }
 
 export const checkoutFieldsWide: CheckoutField[] = [
@@ -18,7 +22,17 @@ export const checkoutFieldsPaired: CheckoutField[] = [
   { name: 'postalCode', label: 'Postal code', autocomplete: 'postal-code', required: true },
   { name: 'city', label: 'Town or city', autocomplete: 'address-level2', required: true },
   { name: 'region', label: 'State or region', autocomplete: 'address-level1' },
-  { name: 'country', label: 'Country', autocomplete: 'country-name', required: true },
+  { name: 'country', label: 'Country', autocomplete: 'country', required: true, options: countryOptions },
 ]
+
+let countries: FieldOption[] | undefined
+/** Every country by its English name, valued by its ISO 3166-1 code; the shop's zone and tax follow from it. */
+export function countryOptions(): FieldOption[] {
+  countries ??= [
+    { value: '', label: 'Choose a country' },
+    ...countryCodes.map(code => ({ value: code, label: countryName(code) })).sort((a, b) => a.label.localeCompare(b.label, 'en')),
+  ]
+  return countries
+}
 
 export type CheckoutForm = Record<CheckoutField['name'], string>

@@ -181,6 +181,8 @@ export const engineFigureSections: FigureSection[] = [
       { path: 'prices.customMessage.perExtra30sMinor', label: 'Each started 30 s more', kind: 'money' },
       { path: 'prices.customMessage.fourMinuteSurchargeMinor', label: '4-minute surcharge', kind: 'money' },
       { path: 'prices.customMessage.rushMinor', label: 'Rush', kind: 'money' },
+      { path: 'prices.defaultZone', label: 'Zone for countries without a rule (code)', kind: 'text' },
+      { path: 'prices.defaultTaxRegion', label: 'Tax region for addresses without a rule (code)', kind: 'text' },
     ],
     rows: [
       {
@@ -206,6 +208,28 @@ export const engineFigureSections: FigureSection[] = [
           { path: 'taxShipping', label: 'Tax shipping too', kind: 'bool' },
         ],
         blank: () => ({ id: '', label: '', rateBasisPoints: '', taxShipping: false }),
+      },
+      {
+        path: 'prices.countryZones',
+        title: 'Shipping zone by country',
+        item: 'Country rule',
+        columns: [
+          { path: 'country', label: 'Country (ISO code, e.g. US)', kind: 'text' },
+          { path: 'region', label: 'State or region (code; empty = all)', kind: 'text' },
+          { path: 'zone', label: 'Zone code', kind: 'text' },
+        ],
+        blank: () => ({ country: '', region: '', zone: '' }),
+      },
+      {
+        path: 'prices.taxRules',
+        title: 'Tax region by country',
+        item: 'Tax rule',
+        columns: [
+          { path: 'country', label: 'Country (ISO code, e.g. US)', kind: 'text' },
+          { path: 'region', label: 'State or region (code; empty = all)', kind: 'text' },
+          { path: 'taxRegion', label: 'Tax region code', kind: 'text' },
+        ],
+        blank: () => ({ country: '', region: '', taxRegion: '' }),
       },
     ],
   },

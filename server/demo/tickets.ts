@@ -94,9 +94,9 @@ const demoRecorders: DemoRecorder[] = [
 
 /** Invented collectors; the demo collector account is used too when it exists. */
 const demoCollectors = [
-  { name: 'Hollis Wrenfield', email: 'hollis.wrenfield@collectors.test', address: { line1: '3 Tallow Row', city: 'Carrowdene', postalCode: 'CD4 7RW', country: 'Fernland' } },
-  { name: 'Maud Pellingham', email: 'maud.pellingham@collectors.test', address: { line1: '17 Ferrow Quay', city: 'Wrenhaven', postalCode: 'WH1 2FQ', country: 'Fernland' } },
-  { name: 'Osric Dunmore', email: 'osric.dunmore@collectors.test', address: { line1: 'The Old Chandlery, Gannet Row', city: 'Lowmere', postalCode: 'LM9 3GR', country: 'Fernland' } },
+  { name: 'Hollis Wrenfield', email: 'hollis.wrenfield@collectors.test', address: { line1: '3 Tallow Row', city: 'Carrowdene', postalCode: 'CD4 7RW', region: 'OR', country: 'US' } },
+  { name: 'Maud Pellingham', email: 'maud.pellingham@collectors.test', address: { line1: '17 Ferrow Quay', city: 'Wrenhaven', postalCode: 'WH1 2FQ', region: 'OR', country: 'US' } },
+  { name: 'Osric Dunmore', email: 'osric.dunmore@collectors.test', address: { line1: 'The Old Chandlery, Gannet Row', city: 'Lowmere', postalCode: 'LM9 3GR', region: 'OR', country: 'US' } },
 ]
 
 const demoCutFileId = (recorder: string, index: number) => `demo-testcut-${productSlugFrom(recorder)}-${index + 1}`
@@ -258,7 +258,7 @@ export async function seedDemoTickets(db: Database) {
       owners.push({ ...row!, address: collector.address })
     }
     owners.push(demoCollectorRow
-      ? { ...demoCollectorRow, address: { line1: '8 Quill Lane', city: 'Lowmere', postalCode: 'LM2 4AB', country: 'Fernland' } }
+      ? { ...demoCollectorRow, address: { line1: '8 Quill Lane', city: 'Lowmere', postalCode: 'LM2 4AB', region: 'OR', country: 'US' } }
       : owners[0]!)
     const pickBlank = await demoBlankPicker(tx)
     let ticketCount = 0

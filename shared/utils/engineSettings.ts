@@ -173,6 +173,14 @@ const taxRegionSchema = z.object({
   taxShipping: z.boolean(),
 })
 
+/** ISO 3166-1 alpha-2 country code ("US", "CA"); typed in any case. */
+const countryCode = z.string({ error: 'enter a country code' }).trim().toUpperCase().regex(/^[A-Z]{2}$/, 'a two-letter ISO 3166-1 country code such as US')
+/** A region within the country (ISO 3166-2 subdivision part, "TX"); empty = the whole country. */
+const regionCode = z.string().trim().toUpperCase().max(10, 'at most 10 characters').regex(/^[A-Z0-9]*$/, 'letters and digits only, such as TX').optional()
+  .transform(value => value || undefined)
+const countryZoneSchema = z.object({ country: countryCode, region: regionCode, zone: code })
+const taxRuleSchema = z.object({ country: countryCode, region: regionCode, taxRegion: code })
+
 const priceSettingsSchema = z.object({
   /** ISO 4217 code; amounts below are in its minor unit. */
   currency: z.string().regex(/^[A-Z]{3}$/, 'currency must be an ISO 4217 code such as USD').default('USD'),
@@ -198,6 +206,33 @@ const priceSettingsSchema = z.object({
     { id: 'no_tax', label: 'No sales tax collected', rateBasisPoints: 0, taxShipping: false },
     { id: 'home_state', label: 'Home state', rateBasisPoints: 825, taxShipping: true },
   ]),
+  /**
+   * The zone a shipping address falls in, by country (and region, where one is given); the first
+   * matching row wins, a row with a region before one without. Addresses matching no row ship as `defaultZone`.
+   */
+  countryZones: z.array(countryZoneSchema).max(LIST_MAX, `at most ${LIST_MAX} entries`).default([
+    { country: 'US', zone: 'domestic' },
+    { country: 'CA', zone: 'north_america' },
+    { country: 'MX', zone: 'north_america' },
+  ]),
+  defaultZone: code.default('international'),
+  /** The tax region of a shipping address, matched like `countryZones`; the shop's home state is a demo choice. */
+  taxRules: z.array(taxRuleSchema).max(LIST_MAX, `at most ${LIST_MAX} entries`).default([
+    { country: 'US', region: 'TX', taxRegion: 'home_state' },
+  ]),
+  defaultTaxRegion: code.default('no_tax'),
+}).superRefine((prices, ctx) => {
+  // Every zone and tax region named by a rule must be one the shop keeps.
+  const zones = new Set(prices.shippingZones.map(zone => zone.id))
+  const regions = new Set(prices.taxRegions.map(region => region.id))
+  prices.countryZones.forEach((rule, index) => {
+    if (!zones.has(rule.zone)) ctx.addIssue({ code: 'custom', path: ['countryZones', index, 'zone'], message: `no shipping zone "${rule.zone}"` })
+  })
+  if (!zones.has(prices.defaultZone)) ctx.addIssue({ code: 'custom', path: ['defaultZone'], message: `no shipping zone "${prices.defaultZone}"` })
+  prices.taxRules.forEach((rule, index) => {
+    if (!regions.has(rule.taxRegion)) ctx.addIssue({ code: 'custom', path: ['taxRules', index, 'taxRegion'], message: `no tax region "${rule.taxRegion}"` })
+  })
+  if (!regions.has(prices.defaultTaxRegion)) ctx.addIssue({ code: 'custom', path: ['defaultTaxRegion'], message: `no tax region "${prices.defaultTaxRegion}"` })
 })
 
 const productionSettingsSchema = z.object({

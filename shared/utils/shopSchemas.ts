@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { customMessagesField } from './customSchemas'
+import { countryCodeFor } from './addressPlace'
 
 export const cartItemSchema = z.object({
   slug: z.string({ error: 'slug is required' }).trim().min(1, 'slug is required').max(120, 'slug is too long'),
@@ -17,12 +18,21 @@ export const cartItemsField = z.array(cartItemSchema, { error: 'items must be a 
 const itemsBesideMessages = z.preprocess(value => (Array.isArray(value) && value.length === 0 ? undefined : value), cartItemsField.optional())
 const atLeastOneLine = (body: { items?: unknown[] | undefined, customMessages?: unknown[] | undefined }) => (body.items?.length ?? 0) + (body.customMessages?.length ?? 0) > 0
 const emptyCart = { message: 'items: the cart is empty', path: ['items'] }
+/** Accepted from older clients and thrown away: the zone and tax region follow from the address. */
+const ignoredChoice = z.unknown().transform(() => undefined).optional()
+/** A country as a code ("US", "us") or an English name ("United States"), kept as the ISO 3166-1 alpha-2 code. */
+export const countryField = z.string({ error: issue => (issue.input === undefined ? 'country is required' : 'country must be text') })
+  .trim().min(1, 'country is required').max(60, 'country is too long')
+  .transform((value, ctx) => countryCodeFor(value) ?? (ctx.addIssue({ code: 'custom', message: 'country must be one from the list (an ISO 3166-1 code such as US, or its English name)' }), z.NEVER))
 
 export const cartQuoteSchema = z.object({
   items: itemsBesideMessages,
   customMessages: customMessagesField.optional(),
-  zone: z.string().trim().max(60).optional(),
-  taxRegion: z.string().trim().max(60).optional(),
+  // Where the parcel goes, as far as the customer has filled it in: it decides the zone and the tax.
+  shipTo: z.object({ country: z.string().trim().max(60).optional(), region: z.string().trim().max(80).optional() }).optional(),
+  // The zone and tax region are the server's to decide from the address; older clients may still send them.
+  zone: ignoredChoice,
+  taxRegion: ignoredChoice,
 }).refine(atLeastOneLine, emptyCart)
 
 const addressText = (field: string, max = 120) => z.string({ error: issue => (issue.input === undefined ? `${field} is required` : `${field} must be text`) })
@@ -35,7 +45,7 @@ export const shippingAddressSchema = z.object({
   city: addressText('city', 80),
   region: z.string().trim().max(80, 'region is too long').optional(),
   postalCode: addressText('postalCode', 20),
-  country: addressText('country', 60),
+  country: countryField,
 })
 
 export const checkoutSchema = z.object({
@@ -44,8 +54,8 @@ export const checkoutSchema = z.object({
   customMessages: customMessagesField.optional(),
   email: z.string({ error: 'email is required' }).trim().max(254, 'email is too long').pipe(z.email({ error: 'email is not a valid address' })).transform(v => v.toLowerCase()),
   shippingAddress: shippingAddressSchema,
-  zone: z.string({ error: 'zone is required' }).trim().min(1, 'zone is required').max(60),
-  taxRegion: z.string().trim().max(60).optional(),
+  zone: ignoredChoice,
+  taxRegion: ignoredChoice,
   // After being told of a price change, the customer may accept the new prices and go on.
   acceptChanges: z.boolean().optional(),
   // Made by the browser for one press of "Go to payment" (kept while the cart and form stay the same),

@@ -77,7 +77,7 @@ async function readyToPackOrder(maker: APIRequestContext, buyer: APIRequestConte
   const checkout = await api(buyer, 'POST', '/api/checkout', {
     items: [{ slug: 'moth-and-mandrel-waltz', qty: 1 }],
     email,
-    shippingAddress: { name: 'Tamsin Orrell', line1: '4 Wick Lane', city: 'Lowmere', postalCode: 'LM3 1WL', country: 'Fernland' },
+    shippingAddress: { name: 'Tamsin Orrell', line1: '4 Wick Lane', city: 'Lowmere', postalCode: 'LM3 1WL', region: 'OR', country: 'US' },
     zone: 'domestic',
   })
   const paid = await buyer.post(`${paymentFake}/_fake/sessions/${String(checkout.url).split('/').pop()}/complete?wait=true`, { data: {} })

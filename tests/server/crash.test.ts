@@ -147,7 +147,7 @@ describe.skipIf(!embedded)('crash safety of the embedded database', () => {
         const created = await buyer.call('/api/checkout', {
           items: [{ slug: 'crash-test-blank', qty: 1 + (index % 3) }],
           email: `crash-${round}-${index}@collectors.test`,
-          shippingAddress: { name: 'Crash Tester', line1: '1 Test Row', city: 'Lowmere', postalCode: 'LM1', country: 'Utopia' },
+          shippingAddress: { name: 'Crash Tester', line1: '1 Test Row', city: 'Lowmere', postalCode: 'LM1', region: 'OR', country: 'US' },
           zone: 'domestic',
         }).catch(() => null)
         if (created?.status !== 201) return
@@ -178,7 +178,7 @@ describe.skipIf(!embedded)('crash safety of the embedded database', () => {
       const created = await new Shop(base).call('/api/checkout', {
         items: [{ slug: 'crash-test-blank', qty: 1 }],
         email: `backup-${index}@collectors.test`,
-        shippingAddress: { name: 'Backup Tester', line1: '2 Test Row', city: 'Lowmere', postalCode: 'LM1', country: 'Utopia' },
+        shippingAddress: { name: 'Backup Tester', line1: '2 Test Row', city: 'Lowmere', postalCode: 'LM1', region: 'OR', country: 'US' },
         zone: 'domestic',
       })
       if (created.status !== 201) return
@@ -235,7 +235,7 @@ describe.skipIf(!embedded)('crash safety of the embedded database', () => {
     const order = (index: number) => ({
       items: [{ slug: 'crash-test-blank', qty: 1 }],
       email: `sigterm-${index}@collectors.test`,
-      shippingAddress: { name: 'Shutdown Tester', line1: '3 Test Row', city: 'Lowmere', postalCode: 'LM1', country: 'Utopia' },
+      shippingAddress: { name: 'Shutdown Tester', line1: '3 Test Row', city: 'Lowmere', postalCode: 'LM1', region: 'OR', country: 'US' },
       zone: 'domestic',
       checkoutKey: `sigterm-test-key-${String(index).padStart(4, '0')}`,
     })

@@ -21,7 +21,7 @@ let batchId: number
 let recorderId: number
 let counter = 0
 
-const address = { name: 'Perrin Aldwick', line1: '9 Spindle Row', city: 'Lowmere', postalCode: 'LM5 2SR', country: 'Fernland' }
+const address = { name: 'Perrin Aldwick', line1: '9 Spindle Row', city: 'Lowmere', postalCode: 'LM5 2SR', region: 'OR', country: 'US' }
 const DAY = 86_400_000
 const dateIn = (days: number) => new Date(Date.now() + days * DAY).toISOString().slice(0, 10)
 const words = (count: number) => Array.from({ length: count }, () => 'word').join(' ')

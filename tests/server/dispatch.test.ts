@@ -29,7 +29,7 @@ let counter = 0
 const today = () => new Date().toISOString().slice(0, 10)
 const defaultShipOn = [1, 2, 3]
 const fullChecklist = ['tubes', 'cushioning', 'double_box', 'slip', 'marks']
-const address = { name: 'Orla Fenwright', line1: '2 Cask Row', city: 'Lowmere', postalCode: 'LM5 2CR', country: 'Fernland' }
+const address = { name: 'Orla Fenwright', line1: '2 Cask Row', city: 'Lowmere', postalCode: 'LM5 2CR', region: 'OR', country: 'US' }
 
 beforeAll(async () => {
   maker = await signedIn(account('maker').email, account('maker').password)

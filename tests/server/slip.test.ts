@@ -217,7 +217,7 @@ describe('a guest\'s made cylinder', () => {
     expect(product.status, JSON.stringify(product.body)).toBe(201)
 
     const guest = new Client()
-    const bought = await guest.post('/api/checkout', { items: [{ slug: 'slip-test-cut', qty: 1 }], email: 'guest-slip@collectors.test', shippingAddress: { name: 'Perpetua Wick', line1: '9 Lantern Row', city: 'Lowmere', postalCode: 'LM2 8PW', country: 'Fernland' }, zone: 'domestic' })
+    const bought = await guest.post('/api/checkout', { items: [{ slug: 'slip-test-cut', qty: 1 }], email: 'guest-slip@collectors.test', shippingAddress: { name: 'Perpetua Wick', line1: '9 Lantern Row', city: 'Lowmere', postalCode: 'LM2 8PW', region: 'OR', country: 'US' }, zone: 'domestic' })
     expect(bought.status, JSON.stringify(bought.body)).toBe(201)
     const { orderNumber: number, url: payUrl, accessToken } = bought.body as { orderNumber: string, url: string, accessToken: string }
     const paid = await fetch(`${env.payments.url}/_fake/sessions/${payUrl.split('/').pop()}/complete?wait=true`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' })

@@ -18,7 +18,7 @@ let batchId: number
 let recorderId: number
 let counter = 0
 
-const address = { name: 'Tamsin Orrell', line1: '4 Wick Lane', city: 'Lowmere', postalCode: 'LM3 1WL', country: 'Fernland' }
+const address = { name: 'Tamsin Orrell', line1: '4 Wick Lane', city: 'Lowmere', postalCode: 'LM3 1WL', region: 'OR', country: 'US' }
 
 beforeAll(async () => {
   expect((await new Client().get('/api/health')).status).toBe(200)

@@ -26,12 +26,12 @@ export interface QuoteLine {
  * Prices a cart from the database, never from what the browser sent: every line at today's price
  * and stock, with a list of what changed since the customer saw it.
  */
-export async function quoteCart(db: Database | Transaction, input: { items: CartItemInput[], zone?: string, taxRegion?: string }) {
+export async function quoteCart(db: Database | Transaction, input: { items: CartItemInput[], shipTo?: { country?: string | undefined, region?: string | undefined } | undefined }) {
   const settings = await getSetting('engine', db)
-  const zone = input.zone ?? settings.prices.shippingZones[0]!.id
-  const taxRegion = input.taxRegion ?? settings.prices.taxRegions[0]!.id
-  if (!settings.prices.shippingZones.some(z => z.id === zone)) throw fieldError('zone', `unknown shipping zone "${zone}"`)
-  if (!settings.prices.taxRegions.some(r => r.id === taxRegion)) throw fieldError('taxRegion', `unknown tax region "${taxRegion}"`)
+  // The zone and the tax follow from where the parcel goes; nothing the browser says about them counts.
+  if (input.shipTo?.country && !countryCodeFor(input.shipTo.country)) throw fieldError('shipTo.country', 'country must be one from the list (an ISO 3166-1 code such as US)')
+  const place = placeForAddress(input.shipTo ?? {}, settings.prices)
+  const { zone, taxRegion } = place
 
   const rows = await db.select().from(products).where(inArray(products.slug, input.items.map(item => item.slug)))
   const bySlug = new Map(rows.map(row => [row.slug, row]))
@@ -78,6 +78,8 @@ export async function quoteCart(db: Database | Transaction, input: { items: Cart
     currency: settings.prices.currency,
     zone,
     taxRegion,
+    // What the cart page shows: "Ships as Domestic; Home state sales tax 8.25 %".
+    place,
     lines,
     changes,
     subtotalMinor: priced?.subtotalMinor ?? 0,

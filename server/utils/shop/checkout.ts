@@ -28,7 +28,7 @@ export async function placeCheckoutOrder(db: Database, input: CheckoutInput, use
     // Personal messages are quoted again here (400 naming the field for anything the quote refuses).
     const settings = await getSetting('engine', tx)
     const messages = await prepareCheckoutMessages(tx, input.customMessages ?? [], userId, settings)
-    const cartQuote = await quoteCart(tx, { ...input, items: input.items ?? [] })
+    const cartQuote = await quoteCart(tx, { items: input.items ?? [], shipTo: input.shippingAddress })
     if (cartQuote.changes.some(change => change.kind !== 'price' || !input.acceptChanges)) return { changes: cartQuote.changes, quote: cartQuote }
     const quote = quoteWithMessages(cartQuote, messages, settings)
     // Always in product order, so two carts holding the same products cannot deadlock each other.

@@ -89,6 +89,7 @@ export async function settlePaidSession(tx: Transaction, session: Stripe.Checkou
   if (paid) {
     await queueOrderConfirmation(tx, paid)
     await createTicketsForOrder(tx, paid)
+    await queueMakerPaidOrderMail(tx, paid.id)
     return { outcome: 'paid', orderId: order.id }
   }
   if (order.status !== 'cancelled' || order.paidAt !== null) return { outcome: `ignored: order is ${order.status}`, orderId: order.id }
@@ -98,6 +99,7 @@ export async function settlePaidSession(tx: Transaction, session: Stripe.Checkou
     if (paidLate) {
       await queueOrderConfirmation(tx, paidLate)
       await createTicketsForOrder(tx, paidLate)
+      await queueMakerPaidOrderMail(tx, paidLate.id)
     }
     return { outcome: 'paid late', orderId: order.id }
   }
@@ -132,11 +134,14 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       const mismatch = sessionMismatch(session, order)
       if (mismatch) return ignore(mismatch, order.id)
       const released = await releaseReservation(tx, order, 'The payment page expired unpaid.')
+      // Released here or already by the customer leaving the page: a declined card is told now, once.
+      await queueDeclinedPaymentMail(tx, order.id)
       return { outcome: released ? 'released' : `ignored: order is ${order.status}`, orderId: order.id }
     }
     case 'payment_intent.payment_failed': {
       // A declined card may be tried again on the same payment page, so the hold stays until the
-      // page expires (checkout.session.expired releases it); the customer is told either way.
+      // page expires (checkout.session.expired releases it). The customer is told only then, and only
+      // if the order is still unpaid: a decline put right with another try sends no mail.
       const intent = paymentEvent.data.object
       const order = await findOrder(tx, { number: intent.metadata?.order_number })
       if (!order) return ignore(NO_ORDER)
@@ -144,20 +149,7 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       const mismatch = await failedPaymentMismatch(intent, order)
       if (mismatch) return ignore(mismatch, order.id)
       await tx.insert(orderEvents).values({ orderId: order.id, fromStatus: order.status, toStatus: order.status, note: `Card declined: ${intent.last_payment_error?.message ?? 'no reason given'}` })
-      await queueMail(tx, {
-        to: order.email,
-        subject: `Payment for order ${order.number} did not go through`,
-        dedupeKey: `payment-failed:${order.number}`,
-        content: {
-          heading: 'Your payment did not go through',
-          paragraphs: [
-            `The card payment for order ${order.number} was declined${intent.last_payment_error?.message ? ` (${intent.last_payment_error.message})` : ''}. Nothing was charged.`,
-            `You can try again, with the same or another card, until the hold on your cylinders runs out (${holdText(checkoutHoldMinutes())} after checkout); after that they go back on sale and your cart is still in your browser.`,
-          ],
-          action: { label: 'Back to your cart', url: `${useRuntimeConfig().siteUrl}/cart` },
-        },
-      })
-      return { outcome: 'declined; hold kept until the page expires', orderId: order.id }
+      return { outcome: 'declined; hold kept and the customer told if the page closes unpaid', orderId: order.id }
     }
     case 'charge.refunded': {
       const charge = paymentEvent.data.object
