@@ -20,6 +20,34 @@ const wholeNumber = (field: string, min: number, max: number) => numberInputFiel
 
 export const waxBatchCodePattern = /^[A-Z0-9]+(?:[-/][A-Z0-9]+)*$/
 
+/**
+ * The pour as the trade records it, each optional (null: not recorded). Bounds are slips, not recipes:
+ * blank waxes work well below 180 °C and a pot far hotter nears the flash point of paraffin (above
+ * 200 °C, from memory); a mould hotter than the wax, a day's cooling or a thousand blanks from one pour
+ * would be a typing slip (common practice, no source).
+ */
+export const castingBounds = {
+  meltTempC: { min: 40, max: 180 },
+  pourTempC: { min: 40, max: 180 },
+  mouldTempC: { min: 0, max: 150 },
+  coolingMinutes: { min: 1, max: 1440 },
+  castCount: { min: 0, max: 1000 },
+  rejectedAtCasting: { min: 0, max: 1000 },
+} as const
+const castingTemp = (field: 'meltTempC' | 'pourTempC' | 'mouldTempC') => numberInputField(field, castingBounds[field]).nullable()
+const castingCount = (field: 'coolingMinutes' | 'castCount' | 'rejectedAtCasting') => numberInputField(field, { integer: true, ...castingBounds[field] }).nullable()
+const castingFields = {
+  meltTempC: castingTemp('meltTempC'),
+  pourTempC: castingTemp('pourTempC'),
+  mouldTempC: castingTemp('mouldTempC'),
+  coolingMinutes: castingCount('coolingMinutes'),
+  castCount: castingCount('castCount'),
+  rejectedAtCasting: castingCount('rejectedAtCasting'),
+}
+/** Blanks rejected at casting are some of those cast. */
+const rejectedWithinCast = (batch: { castCount?: number | null, rejectedAtCasting?: number | null }) => batch.castCount == null || batch.rejectedAtCasting == null || batch.rejectedAtCasting <= batch.castCount
+const rejectedTooMany = { message: 'rejectedAtCasting cannot be more than castCount (the blanks cast)', path: ['rejectedAtCasting'] }
+
 export const waxBatchFields = z.object({
   code: z.string({ error: 'code must be text' }).trim().toUpperCase()
     .min(2, 'code needs at least 2 characters').max(30, 'code is at most 30 characters')
@@ -32,17 +60,25 @@ export const waxBatchFields = z.object({
   notes: workshopText('notes', 2000),
   /** The wax formula of the shop's list (Workshop figures) the batch was cast from; null: the shop's first. */
   waxFormulaId: z.string({ error: 'waxFormulaId must be text' }).trim().min(1, 'waxFormulaId is empty').max(40, 'waxFormulaId is too long').nullable(),
+  ...castingFields,
 })
 
 export const waxBatchCreateSchema = waxBatchFields.extend({
   softeningPointC: waxBatchFields.shape.softeningPointC.default(null),
   waxFormulaId: waxBatchFields.shape.waxFormulaId.default(null),
   notes: waxBatchFields.shape.notes.default(''),
-})
+  meltTempC: castingFields.meltTempC.default(null),
+  pourTempC: castingFields.pourTempC.default(null),
+  mouldTempC: castingFields.mouldTempC.default(null),
+  coolingMinutes: castingFields.coolingMinutes.default(null),
+  castCount: castingFields.castCount.default(null),
+  rejectedAtCasting: castingFields.rejectedAtCasting.default(null),
+}).refine(rejectedWithinCast, rejectedTooMany)
 export type WaxBatchCreateInput = z.input<typeof waxBatchCreateSchema>
 
 export const waxBatchPatchSchema = waxBatchFields.partial()
   .refine(patch => Object.values(patch).some(value => value !== undefined), { message: 'change at least one field', path: ['body'] })
+  .refine(rejectedWithinCast, rejectedTooMany)
 export type WaxBatchPatchInput = z.input<typeof waxBatchPatchSchema>
 
 export const waxBatchIdParamsSchema = idParamsSchema
