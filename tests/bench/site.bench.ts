@@ -1,0 +1,209 @@
+// The built app as a phone and a load test see it: `npm run bench site` (after `npm run build`; with
+// GW_OUTPUT_DIR it measures that build). Starts the built server on a free port with an in-memory demo
+// database, then measures, in one run:
+//  - Lighthouse (mobile, simulated throttling) on /, /cylinders, a product and /cart with Debian's Chromium
+//    (CHROME_PATH, default /usr/bin/chromium): performance, accessibility, best practices, SEO, LCP,
+//    whether every text answer was compressed, and the font files and bytes the page fetched;
+//  - the JavaScript each public page loads at once (its module scripts and preloads, gzip), from the build;
+//  - requests per second (autocannon, 10 connections) of /cylinders and /api/shop/products, each as a
+//    share of /api/health's in the same run;
+//  - the server's RSS after start and its highest during 30 s of load;
+//  - a 150 s 44.1 kHz 16-bit surface-test WAV sent to POST /api/workshop/surface-tests/analyse, against
+//    `sox FILE -n stats` on the same file.
+// A report, not a test: it prints a table with each goal and whether it is met, and exits 0 either way.
+import { spawn, spawnSync } from 'node:child_process'
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
+import { createServer } from 'node:net'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import { gzipSync } from 'node:zlib'
+import { fileURLToPath } from 'node:url'
+import autocannon from 'autocannon'
+import { makeSurfaceWav } from '../../server/audio'
+import { demoAccounts } from '../../shared/utils/demoAccounts'
+
+const rootDir = fileURLToPath(new URL('../..', import.meta.url))
+const outputDir = resolve(rootDir, process.env.GW_OUTPUT_DIR ?? '.output')
+const chromePath = process.env.CHROME_PATH ?? '/usr/bin/chromium'
+const LOAD_SECONDS = 10
+
+interface Row { measure: string, before: string, now: string, goal: string, met: boolean | null }
+const rows: Row[] = []
+const row = (measure: string, before: string, now: string, goal: string, met: boolean | null) => rows.push({ measure, before, now, goal, met })
+
+function freePort(): Promise<number> {
+  return new Promise((done, fail) => {
+    const probe = createServer().once('error', fail).listen(0, '127.0.0.1', () => {
+      const { port } = probe.address() as { port: number }
+      probe.close(() => done(port))
+    })
+  })
+}
+
+function rssMb(pid: number): number {
+  const match = readFileSync(`/proc/${pid}/status`, 'utf8').match(/^VmRSS:\s+(\d+) kB/m)
+  return match ? Number(match[1]) / 1024 : Number.NaN
+}
+
+const sleep = (ms: number) => new Promise(done => setTimeout(done, ms))
+
+async function startServer() {
+  const port = await freePort()
+  const dataDir = mkdtempSync(join(tmpdir(), 'gw-bench-'))
+  const server = spawn(process.execPath, [join(outputDir, 'server/index.mjs')], {
+    env: {
+      ...process.env,
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      NUXT_SESSION_PASSWORD: 'bench-session-password-that-is-long-enough-0123456789',
+      NUXT_DB_DIR: 'memory://',
+      NUXT_DATA_DIR: dataDir,
+      NUXT_UPLOADS_DIR: join(dataDir, 'uploads'),
+      NUXT_SEED_DEMO: 'true',
+      NUXT_SITE_URL: `http://127.0.0.1:${port}`,
+      NUXT_PUBLIC_SITE_URL: `http://127.0.0.1:${port}`,
+      NUXT_MAIL_POLL_MS: '60000',
+    },
+    stdio: ['ignore', 'ignore', 'inherit'],
+  })
+  const base = `http://127.0.0.1:${port}`
+  const deadline = Date.now() + 120_000
+  while (Date.now() < deadline) {
+    if (await fetch(`${base}/api/health`).then(r => r.ok, () => false)) break
+    await sleep(200)
+  }
+  return { server, base, dataDir }
+}
+
+async function rate(url: string, seconds: number): Promise<number> {
+  const result = await autocannon({ url, connections: 10, duration: seconds })
+  return result.requests.average
+}
+
+/** The module scripts and preloads a page's HTML fetches at once, gzip bytes, from the build. */
+async function firstLoadJs(base: string, path: string): Promise<{ gzip: number, zod: boolean }> {
+  const html = await (await fetch(`${base}${path}`, { headers: { accept: 'text/html' } })).text()
+  const srcs = new Set<string>()
+  for (const match of html.matchAll(/<script[^>]*\ssrc="([^"]+)"|<link[^>]*rel="modulepreload"[^>]*href="([^"]+)"|<link[^>]*href="([^"]+)"[^>]*rel="modulepreload"/g)) {
+    const src = match[1] ?? match[2] ?? match[3]!
+    if (src.startsWith('/_nuxt/')) srcs.add(src)
+  }
+  let gzip = 0
+  let zod = false
+  for (const src of srcs) {
+    const bytes = readFileSync(join(outputDir, 'public', src))
+    gzip += gzipSync(bytes, { level: 9 }).byteLength
+    zod ||= bytes.includes('ZodError') || bytes.includes('$ZodType')
+  }
+  return { gzip, zod }
+}
+
+async function lighthouseOf(url: string) {
+  const { default: lighthouse } = await import('lighthouse')
+  const { launch } = await import('chrome-launcher')
+  const chrome = await launch({ chromePath, chromeFlags: ['--headless=new', '--no-sandbox', '--disable-gpu'] })
+  try {
+    const result = await lighthouse(url, { port: chrome.port, output: 'json', logLevel: 'error', onlyCategories: ['performance', 'accessibility', 'best-practices', 'seo'] })
+    const lhr = result!.lhr
+    const score = (id: string) => Math.round((lhr.categories[id]?.score ?? 0) * 100)
+    const requests = (lhr.audits['network-requests']?.details as { items?: { resourceType?: string, transferSize?: number, url: string }[] } | undefined)?.items ?? []
+    const fonts = requests.filter(item => item.resourceType === 'Font')
+    return {
+      performance: score('performance'),
+      accessibility: score('accessibility'),
+      bestPractices: score('best-practices'),
+      seo: score('seo'),
+      lcpS: (lhr.audits['largest-contentful-paint']?.numericValue ?? 0) / 1000,
+      cls: lhr.audits['cumulative-layout-shift']?.numericValue ?? 0,
+      compressed: lhr.audits['uses-text-compression']?.score === 1,
+      fontFiles: fonts.length,
+      fontKiB: fonts.reduce((sum, item) => sum + (item.transferSize ?? 0), 0) / 1024,
+    }
+  }
+  finally {
+    await chrome.kill()
+  }
+}
+
+async function surfaceRatio(base: string, dir: string) {
+  const maker = demoAccounts.find(a => a.role === 'maker')!
+  const login = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json', 'origin': base }, body: JSON.stringify({ email: maker.email, password: maker.password }) })
+  const cookie = login.headers.getSetCookie().map(line => line.split(';')[0]).join('; ')
+  const file = join(dir, 'surface.wav')
+  const wav = makeSurfaceWav({ seconds: 150, sampleRate: 44100, bits: 16, levelDbfs: -50, swellDepth: 0.3, clicks: 12, seed: 7 })
+  writeFileSync(file, wav)
+  const best = async (run: () => Promise<void> | void) => {
+    let fastest = Infinity
+    for (let i = 0; i < 3; i++) {
+      const start = performance.now()
+      await run()
+      fastest = Math.min(fastest, performance.now() - start)
+    }
+    return fastest
+  }
+  const uploadMs = await best(async () => {
+    const form = new FormData()
+    form.append('file', new Blob([wav], { type: 'audio/wav' }), 'surface.wav')
+    const answer = await fetch(`${base}/api/workshop/surface-tests/analyse`, { method: 'POST', body: form, headers: { origin: base, cookie, accept: 'application/json' } })
+    if (!answer.ok) throw new Error(`analyse answered ${answer.status}: ${await answer.text()}`)
+    await answer.arrayBuffer()
+  })
+  const soxMs = await best(() => {
+    if (spawnSync('sox', [file, '-n', 'stats']).status !== 0) throw new Error('sox failed')
+  })
+  return { uploadMs, soxMs }
+}
+
+const uptime = readFileSync('/proc/loadavg', 'utf8').split(' ').slice(0, 3).join(' ')
+const { server, base, dataDir } = await startServer()
+try {
+  await sleep(3000)
+  const rssStart = rssMb(server.pid!)
+
+  // Throughput: health first, then the catalogue page and its API, in the same run.
+  let rssPeak = rssStart
+  const sampler = setInterval(() => {
+    rssPeak = Math.max(rssPeak, rssMb(server.pid!))
+  }, 250)
+  const health = await rate(`${base}/api/health`, LOAD_SECONDS)
+  const page = await rate(`${base}/cylinders`, LOAD_SECONDS)
+  const api = await rate(`${base}/api/shop/products`, LOAD_SECONDS)
+  clearInterval(sampler)
+  const rssAfter = Math.max(rssPeak, rssMb(server.pid!))
+
+  const catalogue = await (await fetch(`${base}/api/shop/products`)).json() as { items: { slug: string }[] }
+  const pages = ['/', '/cylinders', `/cylinders/${catalogue.items[0]!.slug}`, '/cart']
+
+  const surface = await surfaceRatio(base, dataDir)
+
+  const before: Record<string, number> = { '/': 74, '/cylinders': 65, 'product': 76, '/cart': 76 }
+  for (const path of pages) {
+    const name = path.startsWith('/cylinders/') ? 'product' : path
+    const scores = await lighthouseOf(`${base}${path}`)
+    const js = await firstLoadJs(base, path)
+    row(`Lighthouse mobile performance ${name}`, String(before[name]), `${scores.performance} (LCP ${scores.lcpS.toFixed(1)} s, CLS ${scores.cls.toFixed(3)})`, '≥ 95', scores.performance >= 95)
+    row(`  accessibility / best practices / SEO ${name}`, '100/100/100', `${scores.accessibility}/${scores.bestPractices}/${scores.seo}`, '100 each', scores.accessibility === 100 && scores.bestPractices === 100 && scores.seo === 100)
+    row(`  text compression ${name}`, 'none', scores.compressed ? 'all compressed' : 'some not', 'all', scores.compressed)
+    row(`  fonts on first load ${name}`, '5 files, 106 KiB', `${scores.fontFiles} files, ${scores.fontKiB.toFixed(0)} KiB`, '≤ 3 files', scores.fontFiles <= 3)
+    row(`  first-load JS ${name} (gzip)`, name === '/cylinders' ? '~120 KiB, zod in' : '', `${(js.gzip / 1024).toFixed(1)} KiB${js.zod ? ', zod in' : ', no zod'}`, name === '/cylinders' ? '≤ 90 KiB, no zod' : 'no zod', name === '/cylinders' ? js.gzip <= 90 * 1024 && !js.zod : !js.zod)
+  }
+  row('/cylinders SSR req/s ÷ /api/health req/s', '0.026', `${(page / health).toFixed(3)} (${page.toFixed(0)} / ${health.toFixed(0)})`, '≥ 0.15', page / health >= 0.15)
+  row('/api/shop/products ÷ /api/health', '0.11', `${(api / health).toFixed(3)} (${api.toFixed(0)} / ${health.toFixed(0)})`, '≥ 0.5', api / health >= 0.5)
+  row('server RSS after start', '~500 MB', `${rssStart.toFixed(0)} MB`, '≤ 250 MB', rssStart <= 250)
+  row(`server RSS, highest during ${LOAD_SECONDS * 3} s of load`, 'up to 1 GB', `${rssAfter.toFixed(0)} MB`, '≤ 350 MB', rssAfter <= 350)
+  const ratio = surface.uploadMs / surface.soxMs
+  row('surface test upload + analysis ÷ sox stats (150 s WAV)', '≈ 30', `${ratio.toFixed(2)} (${surface.uploadMs.toFixed(0)} ms / ${surface.soxMs.toFixed(0)} ms)`, '≤ 2', ratio <= 2)
+}
+finally {
+  server.kill()
+  rmSync(dataDir, { recursive: true, force: true })
+}
+
+const widths = ['measure', 'before', 'now', 'goal'].map(key => Math.max(key.length, ...rows.map(r => String(r[key as keyof Row]).length)))
+const line = (cells: string[]) => `| ${cells.map((cell, i) => cell.padEnd(widths[i] ?? 4)).join(' | ')} |`
+console.log(`\nBuild: ${outputDir}; load average at start: ${uptime} (a shared machine makes the ratios noisy)\n`)
+console.log(line(['measure', 'before', 'now', 'goal', 'met']))
+console.log(line(widths.map(w => '-'.repeat(w)).concat('---')))
+for (const r of rows) console.log(line([r.measure, r.before, r.now, r.goal, r.met === null ? '' : r.met ? 'yes' : 'NO']))
+const missed = rows.filter(r => r.met === false).length
+console.log(`\n${rows.length - missed} of ${rows.length} goals met.`)
