@@ -2,16 +2,17 @@
 // (GW-26-0001 …) in every state of their life cycle, each with the logs that brought it there, and
 // surface tests analysed from synthetic play-throughs whose answers are known: white or softened
 // noise at a set level, with or without a once-per-turn swell and clicks (server/audio/synth.ts).
+import { createHash } from 'node:crypto'
 import { eq, inArray } from 'drizzle-orm'
-import type { CylinderFormat } from '#shared/utils/cylinder'
-import { blankLog, blanks, settings, surfaceTests, users, waxBatches } from '../db/schema'
+import { cylinderFormats, type CylinderFormat } from '#shared/utils/cylinder'
+import { blankLog, blanks, files, settings, surfaceTests, users, waxBatches } from '../db/schema'
 import { analyseSurfaceWav, encodeWav, makeSurfaceSignal, surfaceThresholdsSchema, type SurfaceThresholds, type SurfaceWavOptions } from '../audio'
 import { judgeSurfaceCoverage, storedVerdictWithoutOverrule, surfacePlayingTimeS, type JudgedSurfaceAnalysis } from '../utils/workshop/blankSurfaceTests'
 import { blankStateAfterTest, isSurfaceOverrule, type BlankState } from '#shared/utils/blankLifecycle'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import type { BlankReshaveLogData, BlankStateLogData } from '#shared/utils/workshopSchemas'
 import type { Database } from '../utils/platform/db'
-import { storeFile } from '../utils/platform/uploads'
+import { uploadStorage } from '../utils/platform/uploads'
 import { blankReamingRecord, blankShavingRecord, drawBlankCodes } from '../utils/workshop/blanks'
 import { getSetting } from '../utils/workshop/settings'
 
@@ -135,24 +136,28 @@ interface TestDraft {
 interface DemoTake { key: string, bytes: Uint8Array, analysis: JudgedSurfaceAnalysis }
 
 /**
- * A full-length play-through of one kind of demo surface on one format, made and analysed once and
- * shared by every demo test of that kind (the file too), so the seed stays quick.
+ * A full-length play-through of one kind of demo surface, made and analysed once and shared by every
+ * demo test of that kind (the file too), so the seed stays quick and small: as long as the longer
+ * format's surface, it covers a surface of either format.
  */
 function demoTakeMaker(engine: EngineSettings, thresholds: SurfaceThresholds) {
-  const takes = new Map<string, DemoTake>()
+  const takes = new Map<string, Omit<DemoTake, 'analysis'> & { raw: ReturnType<typeof analyseSurfaceWav> }>()
+  const seconds = Math.max(...cylinderFormats.map(format => surfacePlayingTimeS(format, RPM, engine)))
   return (surface: DemoSurface, format: CylinderFormat): DemoTake => {
-    const key = `${format}-${JSON.stringify(surface.sound)}`
-    const known = takes.get(key)
-    if (known) return known
-    const segment = makeSurfaceSignal({ seconds: SEGMENT_SECONDS, sampleRate: SAMPLE_RATE, rpm: RPM, seed: 1000 + takes.size, ...surface.sound }).samples
-    const repeats = Math.ceil(surfacePlayingTimeS(format, RPM, engine) / SEGMENT_SECONDS)
-    const samples = new Float32Array(segment.length * repeats)
-    for (let i = 0; i < repeats; i++) samples.set(segment, i * segment.length)
-    const bytes = encodeWav(samples, { sampleRate: SAMPLE_RATE })
-    const analysis = judgeSurfaceCoverage(analyseSurfaceWav(bytes, { rpm: RPM, thresholds }), format, RPM, engine, thresholds)
-    const take = { key: `${takes.size + 1}-${format}`, bytes, analysis }
-    takes.set(key, take)
-    return take
+    const sound = JSON.stringify(surface.sound)
+    let take = takes.get(sound)
+    if (!take) {
+      const segment = makeSurfaceSignal({ seconds: SEGMENT_SECONDS, sampleRate: SAMPLE_RATE, rpm: RPM, seed: 1000 + takes.size, ...surface.sound }).samples
+      const repeats = Math.ceil(seconds / SEGMENT_SECONDS)
+      const samples = new Float32Array(segment.length * repeats)
+      for (let i = 0; i < repeats; i++) samples.set(segment, i * segment.length)
+      const bytes = encodeWav(samples, { sampleRate: SAMPLE_RATE })
+      // A fixed id from what the take is, so that seeding again reuses the stored file.
+      const key = createHash('sha1').update(`${sound}-${seconds}-${SEGMENT_SECONDS}-${SAMPLE_RATE}-${takes.size}`).digest('hex').slice(0, 16)
+      take = { key, bytes, raw: analyseSurfaceWav(bytes, { rpm: RPM, thresholds }) }
+      takes.set(sound, take)
+    }
+    return { key: take.key, bytes: take.bytes, analysis: judgeSurfaceCoverage(take.raw, format, RPM, engine, thresholds) }
   }
 }
 
@@ -289,12 +294,18 @@ export async function seedDemoWorkshop(db: Database) {
       at: entry.at,
     }))))
     const tests: (typeof surfaceTests.$inferInsert)[] = []
-    const fileOf = new Map<string, string>()
+    const stored = new Set<string>()
+    const storage = await uploadStorage()
     for (const [index, { story }] of stories.entries()) {
       for (const test of story.tests) {
-        // One stored file per kind of demo take, shared by the tests that used it.
-        const fileId = fileOf.get(test.take.key) ?? (await storeFile(tx, { data: test.take.bytes, mime: 'audio/wav', purpose: 'surface_test', originalName: `demo-surface-${test.take.key}.wav`, isPublic: false, uploadedBy: makerId })).id
-        fileOf.set(test.take.key, fileId)
+        // One stored file per kind of demo take, shared by the tests that used it, under a fixed id.
+        const fileId = `demo-surface-${test.take.key}`
+        if (!stored.has(fileId)) {
+          const kept = await storage.getItemRaw<Uint8Array>(fileId).catch(() => null)
+          if (!kept?.byteLength) await storage.setItemRaw(fileId, test.take.bytes)
+          await tx.insert(files).values({ id: fileId, purpose: 'surface_test', mime: 'audio/wav', bytes: test.take.bytes.byteLength, originalName: `${fileId}.wav`, isPublic: false, uploadedBy: makerId }).onConflictDoNothing()
+          stored.add(fileId)
+        }
         tests.push({
           blankId: rows[index]!.id,
           surface: test.surface,

@@ -1,3 +1,6 @@
+import { mkdtempSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
 import { url } from '@nuxt/test-utils/e2e'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { makeSurfaceWav } from '../../server/audio'
@@ -6,7 +9,8 @@ import { demoAccounts } from '../../shared/utils/demoAccounts'
 import type { Client } from './harness'
 import { signedIn, useTestServer, waitFor } from './harness'
 
-const env = await useTestServer()
+// Full-length takes are megabytes each: they go to a folder of this run's own.
+const env = await useTestServer({ NUXT_UPLOADS_DIR: mkdtempSync(join(tmpdir(), 'gw-truth-uploads-')) })
 const payments = env.payments
 const account = (role: string) => demoAccounts.find(a => a.role === role)!
 let maker: Client
