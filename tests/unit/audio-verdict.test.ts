@@ -22,6 +22,9 @@ describe('surface thresholds schema', () => {
       aWeightedDbfs: { marginal: -50, fail: -44 },
       rotaryDb: { marginal: 15, fail: 25 },
       clicksPerMinute: { marginal: 6, fail: 15 },
+      // A take must cover 90 % of the surface's playing time; a pass holds 90 days (shop choices).
+      coveragePercent: 90,
+      passMaxAgeDays: 90,
     })
   })
 
