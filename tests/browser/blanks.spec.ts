@@ -43,8 +43,9 @@ let wavPath: string
 test.beforeAll(() => {
   wavDir = mkdtempSync(join(tmpdir(), 'gw-browser-wav-'))
   wavPath = join(wavDir, 'play-through.wav')
-  // A quiet synthetic surface with known answers: −58 dBFS RMS (AES17), a faint swell, no clicks.
-  writeFileSync(wavPath, makeSurfaceWav({ seconds: 8, sampleRate: 22_050, levelDbfs: -58, swellDepth: 0.02, seed: 77 }))
+  // A quiet synthetic surface with known answers: −58 dBFS RMS (AES17), a faint swell, no clicks; a full
+  // play-through of a 4-minute surface (3.8 in × 200 ÷ 160 rpm = 285 s, shared/utils/cylinder.ts).
+  writeFileSync(wavPath, makeSurfaceWav({ seconds: 285, sampleRate: 22_050, levelDbfs: -58, swellDepth: 0.02, seed: 77 }))
 })
 
 test.afterAll(() => rmSync(wavDir, { recursive: true, force: true }))

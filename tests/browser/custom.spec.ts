@@ -155,7 +155,8 @@ async function testedTwoMinuteBlank(request: APIRequestContext, seed: number): P
   const code = codes[0] as string
   await api(`/api/workshop/blanks/${code}/reaming`, { overhangBeforeIn: '3/16', overhangAfterIn: '7/16', reamings: 4, roomTemperatureF: 74 })
   await api(`/api/workshop/blanks/${code}/shaving`, { lowDiameterIn: '2.200', wheelDegrees: 45, passes: 1, diameterAfterIn: '2.200' })
-  const wav = Buffer.from(makeSurfaceWav({ seconds: 6, sampleRate: 22_050, levelDbfs: -58, swellDepth: 0.02, seed }))
+  // A full play-through: a 4-minute surface plays 3.8 in × 200 ÷ 160 rpm = 285 s (shared/utils/cylinder.ts); a shorter take is incomplete.
+  const wav = Buffer.from(makeSurfaceWav({ seconds: 285, sampleRate: 22_050, levelDbfs: -58, swellDepth: 0.02, seed }))
   const tested = await request.post(`/api/workshop/blanks/${code}/surface-tests`, { headers: { origin: site }, multipart: { file: { name: `${code}.wav`, mimeType: 'audio/wav', buffer: wav } } })
   expect(tested.status(), await tested.text()).toBe(201)
   return code
