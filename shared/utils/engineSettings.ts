@@ -176,8 +176,7 @@ const taxRegionSchema = z.object({
 /** ISO 3166-1 alpha-2 country code ("US", "CA"); typed in any case. */
 const countryCode = z.string({ error: 'enter a country code' }).trim().toUpperCase().regex(/^[A-Z]{2}$/, 'a two-letter ISO 3166-1 country code such as US')
 /** A region within the country (ISO 3166-2 subdivision part, "TX"); empty = the whole country. */
-const regionCode = z.string().trim().toUpperCase().max(10, 'at most 10 characters').regex(/^[A-Z0-9]*$/, 'letters and digits only, such as TX').optional()
-  .transform(value => value || undefined)
+const regionCode = z.preprocess(value => (typeof value === 'string' && value.trim() === '' ? undefined : value), z.string().trim().toUpperCase().max(10, 'at most 10 characters').regex(/^[A-Z0-9]+$/, 'letters and digits only, such as TX').optional())
 const countryZoneSchema = z.object({ country: countryCode, region: regionCode, zone: code })
 const taxRuleSchema = z.object({ country: countryCode, region: regionCode, taxRegion: code })
 

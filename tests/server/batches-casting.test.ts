@@ -58,6 +58,16 @@ describe('casting records on wax batches', () => {
     expect(patched.status).toBe(400)
     expect(patched.body.message).toMatch(/pourTempC/)
     expect((await maker.get('/api/workshop/batches')).body.find((batch: any) => batch.id === created.body.id).pourTempC).toBeNull()
+
+    // A correction of one count is checked against the other as stored.
+    const counted = await maker.post('/api/workshop/batches', { ...base(), castCount: 10, rejectedAtCasting: 3 })
+    const tooMany = await maker.request(`/api/workshop/batches/${counted.body.id}`, { method: 'PATCH', body: { rejectedAtCasting: 12 } })
+    expect(tooMany.status).toBe(400)
+    expect(Object.keys(tooMany.body.data.fields)).toContain('rejectedAtCasting')
+    const tooFew = await maker.request(`/api/workshop/batches/${counted.body.id}`, { method: 'PATCH', body: { castCount: 2 } })
+    expect(tooFew.status).toBe(400)
+    expect(Object.keys(tooFew.body.data.fields)).toContain('castCount')
+    expect((await maker.get('/api/workshop/batches')).body.find((batch: any) => batch.id === counted.body.id)).toMatchObject({ castCount: 10, rejectedAtCasting: 3 })
   })
 
   it('only a maker records a pour', async () => {

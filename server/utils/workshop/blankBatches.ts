@@ -40,3 +40,12 @@ export async function findWaxBatch(db: Database | Transaction, id: number): Prom
   if (!batch) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `No wax batch has the id ${id}.` })
   return batch
 }
+
+/** A correction sending one of blanks cast and rejected is checked against the other as stored: rejected ≤ cast. */
+export function checkCastingCounts(batch: WaxBatchRow, patch: { castCount?: number | null, rejectedAtCasting?: number | null }) {
+  const cast = patch.castCount !== undefined ? patch.castCount : batch.castCount
+  const rejected = patch.rejectedAtCasting !== undefined ? patch.rejectedAtCasting : batch.rejectedAtCasting
+  if (cast != null && rejected != null && rejected > cast) {
+    throw fieldError(patch.rejectedAtCasting !== undefined ? 'rejectedAtCasting' : 'castCount', `rejectedAtCasting (${rejected}) cannot be more than castCount (${cast}, the blanks cast)`)
+  }
+}

@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const patch = await readBodyWith(event, waxBatchPatchSchema)
   const db = await useDB()
   await checkWaxFormulaId(db, patch.waxFormulaId)
-  await findWaxBatch(db, id)
+  checkCastingCounts(await findWaxBatch(db, id), patch)
   try {
     const [batch] = await db.update(waxBatches).set(patch).where(eq(waxBatches.id, id)).returning()
     return batch!
