@@ -6,7 +6,7 @@ import { createHash } from 'node:crypto'
 import { eq, inArray } from 'drizzle-orm'
 import { cylinderFormats, type CylinderFormat } from '#shared/utils/cylinder'
 import { blankLog, blanks, files, settings, surfaceTests, users, waxBatches } from '../db/schema'
-import { analyseSurfaceWav, encodeWav, makeSurfaceSignal, surfaceThresholdsSchema, type SurfaceThresholds, type SurfaceWavOptions } from '../audio'
+import { analyseSurfaceWav, encodeWav, makeSurfaceSignal, surfaceThresholdsSchema, type SurfaceAnalysis, type SurfaceThresholds, type SurfaceWavOptions } from '../audio'
 import { judgeSurfaceCoverage, storedVerdictWithoutOverrule, surfacePlayingTimeS, type JudgedSurfaceAnalysis } from '../utils/workshop/blankSurfaceTests'
 import { blankStateAfterTest, isSurfaceOverrule, type BlankState } from '#shared/utils/blankLifecycle'
 import type { EngineSettings } from '#shared/utils/engineSettings'
@@ -311,7 +311,7 @@ export async function seedDemoWorkshop(db: Database) {
           surface: test.surface,
           fileId,
           rpm: RPM,
-          figures: test.analysis,
+          figures: test.analysis as SurfaceAnalysis,
           aWeightedDbfs: test.analysis.aWeightedDbfs,
           rotaryDb: test.analysis.rotaryDb!,
           clicksPerMinute: test.analysis.clicksPerMinute,

@@ -139,7 +139,8 @@ export async function recordBlankSurfaceTest(tx: Transaction, blank: BlankRow, i
     surface,
     fileId: file.id,
     rpm: input.rpm,
-    figures: input.analysis,
+    // Kept as the engine gave them, with the coverage beside (the column's type predates it).
+    figures: input.analysis as SurfaceAnalysis,
     aWeightedDbfs: input.analysis.aWeightedDbfs,
     rotaryDb: input.analysis.rotaryDb,
     clicksPerMinute: input.analysis.clicksPerMinute,
