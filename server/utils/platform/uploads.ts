@@ -153,7 +153,8 @@ function streamMultipart(event: H3Event, purpose: UploadPurpose): Promise<{ file
       if (name && name !== 'file') fields[name] = value
     })
     parser.on('file', (name, stream, info) => {
-      if (name !== 'file' || info.filename === undefined) {
+      const filename = info.filename
+      if (name !== 'file' || filename === undefined) {
         stream.resume()
         return
       }
@@ -170,7 +171,7 @@ function streamMultipart(event: H3Event, purpose: UploadPurpose): Promise<{ file
       })
       stream.on('limit', () => fail(tooLarge(purpose)))
       stream.on('end', () => {
-        if (!settled) file = { data: chunks.length === 1 ? chunks[0]! : Buffer.concat(chunks, size), filename: info.filename }
+        if (!settled) file = { data: chunks.length === 1 ? chunks[0]! : Buffer.concat(chunks, size), filename }
       })
     })
     parser.on('partsLimit', () => fail(fieldError('file', 'too many parts in the form; nothing was stored')))
