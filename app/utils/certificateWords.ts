@@ -4,4 +4,4 @@ export const certificateDay = (iso: string | null | undefined) => iso ? new Date
 /** A level in dBFS with a true minus sign. */
 export const formatDbfs = (value: number) => `${value.toFixed(1).replace('-', '−')} dBFS`
 
-export const certificateVerdictWords = { pass: 'pass', marginal: 'marginal', fail: 'fail' } as const
+export const certificateVerdictWords = { pass: 'pass', marginal: 'marginal', fail: 'fail', incomplete: 'incomplete (the take did not cover the surface)' } as const
