@@ -240,6 +240,8 @@ describe('a guest\'s made cylinder', () => {
     // Not the order's key: the slip may travel with a gift, and the order's page shows what was paid.
     expect(key).not.toBe(accessToken)
     expect(pdf.text).toContain(code)
+    // The country is kept as its ISO 3166-1 code and printed by name for the carrier.
+    expect(pdf.text).toContain('United States')
     // The address read from the code opens the certificate for whoever holds the slip, signed in or not.
     const opened = await new Client().get(`/api/certificates/${ticket!.id}?t=${key}`)
     expect(opened.status).toBe(200)

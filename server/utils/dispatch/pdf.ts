@@ -2,6 +2,7 @@ import PDFDocument from 'pdfkit'
 import bwipjs from 'bwip-js/node'
 import QRCode from 'qrcode'
 import type { ShippingAddress } from '../../db/schema'
+import { countryName } from '../../../shared/utils/addressPlace'
 
 /*
  * Drawing helpers the packing slip and the address label share: the fonts shipped with the app
@@ -87,6 +88,6 @@ export function drawCode128(doc: PDFKit.PDFDocument, barcode: Code128, x: number
 /** An address as the lines a carrier reads, top to bottom. */
 export function parcelAddressLines(address: ShippingAddress): string[] {
   const town = [address.city, address.region].filter(Boolean).join(', ')
-  return [address.name, address.line1, address.line2, town, address.postalCode, address.country]
+  return [address.name, address.line1, address.line2, town, address.postalCode, countryName(address.country)]
     .map(line => (line ?? '').trim()).filter(Boolean)
 }
