@@ -311,6 +311,9 @@ describe('leaving the payment page, and checking out twice', () => {
     expect(await stockOf(product.slug)).toBe(1)
     const order = await orderAs(orderNumber, accessToken)
     expect(order.timeline.map((step: any) => step.to)).toEqual(['awaiting_payment', 'cancelled'])
+    // The page's own expiry event came after the order was given up: its record says so, not "ignored".
+    const events = (await maker.get(`/api/workshop/orders/${orderNumber}`)).body.paymentEvents
+    expect(events).toEqual(expect.arrayContaining([expect.objectContaining({ type: 'checkout.session.expired', outcome: 'nothing to release: order already cancelled' })]))
 
     // The last one is for sale again at once, to this customer or anyone.
     const again = await checkout(new Client(), [{ slug: product.slug, qty: 1 }])

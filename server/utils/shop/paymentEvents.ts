@@ -136,7 +136,8 @@ export async function handlePaymentEvent(tx: Transaction, paymentEvent: Stripe.E
       const released = await releaseReservation(tx, order, 'The payment page expired unpaid.')
       // Released here or already by the customer leaving the page: a declined card is told now, once.
       await queueDeclinedPaymentMail(tx, order.id)
-      return { outcome: released ? 'released' : `ignored: order is ${order.status}`, orderId: order.id }
+      // Nothing left to release when the customer gave up, the hold ran out first, or it was paid: say so.
+      return { outcome: released ? 'released' : `nothing to release: order already ${order.status.replace(/_/g, ' ')}`, orderId: order.id }
     }
     case 'payment_intent.payment_failed': {
       // A declined card may be tried again on the same payment page, so the hold stays until the
