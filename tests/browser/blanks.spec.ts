@@ -104,6 +104,9 @@ test('the maker filters the register, opens a shaved blank, uploads its play-thr
   await expect(page.getByText('No blank matches these filters.')).toBeVisible()
   await page.goto('/workshop/blanks')
   await expect(page.getByRole('table', { name: 'Blanks in the register' }).getByRole('link', { name: shaved })).toBeVisible()
+  // The demo keeps one pass older than the shop's limit: the register says it must be tested again.
+  await page.goto('/workshop/blanks?state=tested_pass')
+  await expect(page.getByTestId('stale-test').first()).toHaveText('stale, test again')
   expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
   await page.screenshot({ path: `${shots}/blanks-register-phone.png`, fullPage: true })
   await expectNoSeriousAxeViolations(page)
