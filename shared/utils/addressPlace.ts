@@ -93,3 +93,33 @@ export function placeForAddress(address: { country?: string | null, region?: str
   const taxRow = prices.taxRegions.find(row => row.id === taxRegion)
   return { country, region, zone, zoneLabel: zoneRow?.label ?? zone, taxRegion, taxLabel: taxRow?.label ?? taxRegion, rateBasisPoints: taxRow?.rateBasisPoints ?? 0 }
 }
+
+/** The parts of a postal address that are written out (the shape every order keeps). */
+export interface WrittenAddress {
+  name?: string | null
+  line1?: string | null
+  line2?: string | null
+  city?: string | null
+  region?: string | null
+  postalCode?: string | null
+  country?: string | null
+}
+
+/** Each present part trimmed, the empty ones left out, joined by `glue`: no stray space or comma. */
+const joinParts = (parts: (string | null | undefined)[], glue: string) =>
+  parts.map(part => (part ?? '').trim()).filter(Boolean).join(glue)
+
+/** The town line as an address label writes it: "90210 Lowmere, CA" ("Lowmere, CA" without a postal code). */
+export function addressTownLine(address: WrittenAddress): string {
+  return joinParts([joinParts([address.postalCode, address.city], ' '), address.region], ', ')
+}
+
+/** The address as its lines, top to bottom: name, street lines, town line, the country by name. */
+export function addressAsLines(address: WrittenAddress): string[] {
+  const country = (address.country ?? '').trim()
+  return [address.name, address.line1, address.line2, addressTownLine(address), country ? countryName(country) : '']
+    .map(line => (line ?? '').trim()).filter(Boolean)
+}
+
+/** The address on one line, its parts separated by commas (an order page, a mail). */
+export const addressOneLine = (address: WrittenAddress) => addressAsLines(address).join(', ')

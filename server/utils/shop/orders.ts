@@ -1,7 +1,7 @@
 import { createHmac, timingSafeEqual } from 'node:crypto'
 import { and, eq, ne, sql } from 'drizzle-orm'
 import { orderEvents, orderItems, orders, products, refundItems, refunds } from '../../db/schema'
-import { countryName } from '../../../shared/utils/addressPlace'
+import { addressOneLine } from '../../../shared/utils/addressPlace'
 import type { Database, Transaction } from '../platform/db'
 
 /** The order row (`OrderRow` of shared/types/rows.ts) under the name the shop's code has long used. */
@@ -193,7 +193,7 @@ export async function queueOrderConfirmation(tx: Database | Transaction, paidOrd
       paragraphs: [
         ...items.map(item => `${item.quantity} × ${item.title} — ${money(item.lineTotalMinor)}`),
         `Subtotal ${money(order.subtotalMinor)} · shipping ${money(order.shippingMinor)} · tax ${money(order.taxMinor)} · total ${money(order.totalMinor)}.`,
-        `Shipping to: ${[address.name, address.line1, address.line2, `${address.postalCode} ${address.city}`, address.region, countryName(address.country)].filter(Boolean).join(', ')}.`,
+        `Shipping to: ${addressOneLine(address)}.`,
         items.some(item => item.madeToOrder)
           ? 'What happens next: cylinders made to order are cut on a tested blank; you can follow each step on your order page. Stock items are packed once everything is ready.'
           : 'What happens next: we pack your cylinders in padded tubes and tell you when the parcel leaves. In hot weather we may hold a parcel for a cooler day.',
