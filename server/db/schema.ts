@@ -134,6 +134,10 @@ export const products = pgTable('products', {
   madeToOrder: boolean('made_to_order').notNull().default(false),
   // The wax formula of the shop's list a made cylinder (recorded, custom) or a blank is of.
   waxFormulaId: text('wax_formula_id'),
+  // A blank product's stock: `register` counts the register's free, passed blanks of its format and wax
+  // (less those promised to open orders not yet packed) and is recomputed whenever the register changes;
+  // `manual` keeps the count the maker types. Other kinds ignore it.
+  stockSource: text('stock_source', { enum: ['register', 'manual'] }).notNull().default('register'),
   hidden: boolean('hidden').notNull().default(false),
   photoFileIds: jsonb('photo_file_ids').$type<string[]>().notNull().default([]),
   photoAlt: text('photo_alt').notNull().default(''),
@@ -320,6 +324,24 @@ export const blanks = pgTable('blanks', {
 }, table => [
   index('blanks_register').on(table.state, table.format, table.batchId),
   index('blanks_batch').on(table.batchId),
+])
+
+/**
+ * The register blank that goes out as one unit of a blank product, chosen when the order is packed:
+ * reserved then, shipped with the order. A blank goes out once (unique), a unit takes one blank.
+ */
+export const orderItemBlanks = pgTable('order_item_blanks', {
+  id: serial('id').primaryKey(),
+  orderId: integer('order_id').notNull().references(() => orders.id, { onDelete: 'cascade' }),
+  orderItemId: integer('order_item_id').notNull().references(() => orderItems.id, { onDelete: 'cascade' }),
+  unit: integer('unit').notNull(),
+  blankId: integer('blank_id').notNull().references(() => blanks.id),
+  tiedBy: integer('tied_by').references(() => users.id, { onDelete: 'set null' }),
+  tiedAt: timestamp('tied_at', { withTimezone: true }).notNull().defaultNow(),
+}, table => [
+  uniqueIndex('order_item_blanks_blank').on(table.blankId),
+  uniqueIndex('order_item_blanks_item_unit').on(table.orderItemId, table.unit),
+  index('order_item_blanks_order').on(table.orderId),
 ])
 
 export const blankLogKind = pgEnum('blank_log_kind', ['reaming', 'shaving', 'reshave', 'state', 'note'])
