@@ -10,6 +10,8 @@ const settingSchemas = {
   engine: engineSettingsSchema,
   // The maker's limits for a surface test's verdict (server/audio/verdict.ts).
   surface: surfaceThresholdsSchema,
+  // The units and locale people type and read in (shared/utils/units.ts); stored figures keep theirs.
+  units: unitPreferencesSchema,
 } satisfies Record<string, ZodType>
 
 export type SettingKey = keyof typeof settingSchemas
