@@ -22,6 +22,23 @@ if (!site) problems.push('NUXT_SITE_URL must be set to the shop\'s public addres
 else if (!siteUrl || !/^https?:$/.test(siteUrl.protocol) || siteUrl.pathname !== '/' || siteUrl.search || siteUrl.hash) {
   problems.push(`NUXT_SITE_URL must be an http or https address with no path, e.g. https://cylinders.example.org (got "${site}").`)
 }
+const uploadsDriver = process.env.NUXT_UPLOADS_DRIVER ?? 'fs'
+if (!['fs', 's3', 'build'].includes(uploadsDriver)) problems.push(`NUXT_UPLOADS_DRIVER must be fs, s3 or build (got "${uploadsDriver}").`)
+if (uploadsDriver === 's3') {
+  // Several instances share one bucket; each of these names one part of how to reach it.
+  const bucketSettings = {
+    NUXT_UPLOADS_S3_ENDPOINT: process.env.NUXT_UPLOADS_S3_ENDPOINT,
+    NUXT_UPLOADS_S3_BUCKET: process.env.NUXT_UPLOADS_S3_BUCKET,
+    NUXT_UPLOADS_S3_REGION: process.env.NUXT_UPLOADS_S3_REGION,
+    NUXT_UPLOADS_S3_ACCESS_KEY_ID: process.env.NUXT_UPLOADS_S3_ACCESS_KEY_ID,
+    NUXT_UPLOADS_S3_SECRET_ACCESS_KEY: process.env.NUXT_UPLOADS_S3_SECRET_ACCESS_KEY,
+  }
+  for (const [name, value] of Object.entries(bucketSettings)) {
+    if (!value?.trim()) problems.push(`${name} must be set with NUXT_UPLOADS_DRIVER=s3 (the S3-compatible bucket every instance keeps uploads in).`)
+  }
+  const endpoint = bucketSettings.NUXT_UPLOADS_S3_ENDPOINT
+  if (endpoint && !/^https?:\/\/[^/]/.test(endpoint)) problems.push(`NUXT_UPLOADS_S3_ENDPOINT must be an http or https address (got "${endpoint}").`)
+}
 if (problems.length > 0) {
   for (const problem of problems) console.error(`[serve] ${problem}`)
   process.exit(1)

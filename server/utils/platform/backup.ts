@@ -13,14 +13,16 @@ import { create as createTar } from 'tar'
 export async function writeBackupArchive(target: string): Promise<{ file: string, bytes: number }> {
   const database = await dumpEmbeddedDatabase()
   if (!database) {
-    throw conflictError('This shop runs on a PostgreSQL server: back it up with pg_dump; upload files live in the configured storage.')
+    throw conflictError('This shop runs on a PostgreSQL server: back it up with pg_dump, and the uploads with the tools of the storage they live in (an S3-compatible bucket\'s versioning or a sync to another bucket).')
   }
   const work = await mkdtemp(join(tmpdir(), 'gw-backup-'))
   try {
     await writeFile(join(work, 'database.tar.gz'), database)
-    // Uploads in shared storage (NUXT_UPLOADS_DRIVER=build) are backed up with that storage's own tools.
+    // Uploads in an S3-compatible bucket (NUXT_UPLOADS_DRIVER=s3) or another shared mount (`build`) are not
+    // copied here: back the bucket up with its own tools (versioning, replication, a sync to another bucket).
     const localUploads = uploadsOnLocalDisk()
-    await writeFile(join(work, 'manifest.json'), JSON.stringify({ createdAt: new Date().toISOString(), format: 1, contents: ['database.tar.gz', 'uploads/'], uploadsIncluded: localUploads }, null, 2))
+    const uploadsNote = localUploads ? 'the uploads folder' : `not included: uploads live in shared storage (NUXT_UPLOADS_DRIVER=${uploadsDriver()}); back that bucket up with its own tools`
+    await writeFile(join(work, 'manifest.json'), JSON.stringify({ createdAt: new Date().toISOString(), format: 1, contents: ['database.tar.gz', 'uploads/'], uploadsIncluded: localUploads, uploads: uploadsNote }, null, 2))
     const uploads = resolve(String(useRuntimeConfig().uploadsDir))
     if (localUploads && existsSync(uploads)) await symlink(uploads, join(work, 'uploads'), 'dir')
     else await mkdir(join(work, 'uploads'))

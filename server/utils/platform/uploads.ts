@@ -10,6 +10,7 @@ import sharp from 'sharp'
 import type { Storage } from 'unstorage'
 import type { UploadLimit, UploadPurpose } from '#shared/utils/catalogueSchemas'
 import fsDriver from 'unstorage/drivers/fs'
+import s3Driver from 'unstorage/drivers/s3'
 import { files } from '../../db/schema'
 import { AudioInputError, decodeWav } from '../../audio'
 import type { Database, Transaction } from './db'
@@ -22,25 +23,66 @@ const PHOTO_MAX_EDGE_PX = 2000
 
 let storageReady: Promise<Storage> | undefined
 
+export type UploadsDriver = 'fs' | 'build' | 's3'
+
+/** Where uploads live: NUXT_UPLOADS_DRIVER, `fs` (the folder NUXT_UPLOADS_DIR, the default), `s3` or `build`. */
+export function uploadsDriver(): UploadsDriver {
+  const driver = String(useRuntimeConfig().uploadsDriver)
+  if (driver !== 'fs' && driver !== 'build' && driver !== 's3') throw new Error(`NUXT_UPLOADS_DRIVER must be 'fs', 's3' or 'build', not '${driver}'`)
+  return driver
+}
+
 /** Whether uploads live in the local folder `NUXT_UPLOADS_DIR` (the default) rather than shared storage. */
 export function uploadsOnLocalDisk(): boolean {
-  const driver = String(useRuntimeConfig().uploadsDriver)
-  if (driver !== 'fs' && driver !== 'build') throw new Error(`NUXT_UPLOADS_DRIVER must be 'fs' or 'build', not '${driver}'`)
-  return driver === 'fs'
+  return uploadsDriver() === 'fs'
+}
+
+/** The settings of an S3-compatible bucket for uploads, each read from its own variable. */
+const s3SettingNames = {
+  endpoint: 'NUXT_UPLOADS_S3_ENDPOINT',
+  bucket: 'NUXT_UPLOADS_S3_BUCKET',
+  region: 'NUXT_UPLOADS_S3_REGION',
+  accessKeyId: 'NUXT_UPLOADS_S3_ACCESS_KEY_ID',
+  secretAccessKey: 'NUXT_UPLOADS_S3_SECRET_ACCESS_KEY',
+} as const
+
+/**
+ * The bucket NUXT_UPLOADS_DRIVER=s3 keeps uploads in. Throws naming every missing setting, and an endpoint
+ * that is not an http(s) address, so a server started without them stops at once instead of failing its
+ * first upload.
+ */
+export function s3UploadSettings(): Record<keyof typeof s3SettingNames, string> {
+  const settings = {
+    endpoint: process.env.NUXT_UPLOADS_S3_ENDPOINT ?? '',
+    bucket: process.env.NUXT_UPLOADS_S3_BUCKET ?? '',
+    region: process.env.NUXT_UPLOADS_S3_REGION ?? '',
+    accessKeyId: process.env.NUXT_UPLOADS_S3_ACCESS_KEY_ID ?? '',
+    secretAccessKey: process.env.NUXT_UPLOADS_S3_SECRET_ACCESS_KEY ?? '',
+  }
+  const missing = (Object.keys(s3SettingNames) as (keyof typeof s3SettingNames)[]).filter(key => !settings[key].trim()).map(key => s3SettingNames[key])
+  if (missing.length > 0) throw new Error(`NUXT_UPLOADS_DRIVER=s3 needs ${missing.join(', ')} (the bucket that holds uploads, shared by every instance)`)
+  if (!/^https?:\/\/[^/]/.test(settings.endpoint)) throw new Error(`NUXT_UPLOADS_S3_ENDPOINT must be an http or https address, e.g. https://s3.eu-central-1.example.com (got "${settings.endpoint}")`)
+  return settings
+}
+
+/** The start-up check of the uploads settings (server/plugins/checkSettings.ts): throws naming the setting. */
+export function checkUploadSettings() {
+  if (uploadsDriver() === 's3') s3UploadSettings()
 }
 
 /**
- * The `uploads` mount of Nitro storage. With NUXT_UPLOADS_DRIVER=fs (the default) it is mounted again
- * at run time on the folder `NUXT_UPLOADS_DIR`, so tests and deployments choose it; with `build` the
- * mount written in nuxt.config.ts (nitro.storage.uploads, e.g. an S3-compatible bucket) is kept.
+ * The `uploads` mount of Nitro storage, chosen at run time by NUXT_UPLOADS_DRIVER: `fs` (the default)
+ * mounts it again on the folder `NUXT_UPLOADS_DIR`, so tests and deployments choose it; `s3` mounts an
+ * S3-compatible bucket (NUXT_UPLOADS_S3_*), shared by several instances; `build` keeps the mount written
+ * in nuxt.config.ts (nitro.storage.uploads) as it was built.
  */
 export function uploadStorage(): Promise<Storage> {
   storageReady ??= (async () => {
-    if (uploadsOnLocalDisk()) {
-      const base = resolve(String(useRuntimeConfig().uploadsDir))
+    const driver = uploadsDriver()
+    if (driver !== 'build') {
       const root = useStorage()
       await root.unmount('uploads', false)
-      root.mount('uploads', fsDriver({ base }))
+      root.mount('uploads', driver === 's3' ? s3Driver(s3UploadSettings()) : fsDriver({ base: resolve(String(useRuntimeConfig().uploadsDir)) }))
     }
     return useStorage('uploads')
   })()
