@@ -1,4 +1,4 @@
-import { GRAMS_PER_POUND } from '#shared/utils/packing'
+import { GRAMS_PER_POUND } from '#shared/utils/units'
 
 /*
  * How dispatch pages word things: weights in grams with pounds and ounces (or kilograms), the heat

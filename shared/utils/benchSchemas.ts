@@ -3,7 +3,8 @@ import { lengthBounds } from './bounds'
 import { cylinderFormats, groovePitchMm, playingTimeMinutes, rotationFrequencyHz, standardBlankDimensions, surfaceSpeedInPerSec } from './cylinder'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
-import { fahrenheitToCelsius, heatFitShift, heatRisk } from './heat'
+import { heatFitShift, heatRisk } from './heat'
+import { fahrenheitToCelsius, temperatureField } from './units'
 import { idField } from './ids'
 import { lengthField } from './length'
 import { messageFitForFormat } from './messageFit'
@@ -99,7 +100,7 @@ export const reamingQuerySchema = z.object({
   perReaming: lengthField('perReaming', { positive: true, ...lengthBounds.perReamingIn }).optional(),
   setSize: numberInputField('setSize', { integer: true, min: 1, max: 20 }).optional(),
   /** Temperature of the blank when read, °F. */
-  temperatureF: numberInputField('temperatureF', { min: -40, max: 160 }).optional(),
+  temperatureF: temperatureField('temperatureF', { stored: 'F', min: -40, max: 160 }).optional(),
 })
 export type ReamingQuery = z.output<typeof reamingQuerySchema>
 

@@ -2,6 +2,7 @@ import { z } from 'zod'
 import { cylinderFormatTable, standardBlankDimensions, standardCylinderRpm } from './cylinder'
 import { lengthBounds } from './bounds'
 import { lengthField } from './length'
+import { temperatureField, weightField } from './units'
 
 /*
  * The shop's settings for the cylinder engine, stored as JSON under the key `engine`.
@@ -17,7 +18,10 @@ const nonNegativeNumber = (name: string, max: number, unit = '') => z.number({ e
 /** Up to 1,000,000.00 in the shop's currency: far beyond any cylinder, parcel or tax line. */
 const MINOR_UNITS_MAX = 100_000_000
 const minorUnits = (name: string) => z.number({ error: `${name} must be a number` }).int(`${name} must be whole minor units (cents)`).min(0, `${name} cannot be negative`).max(MINOR_UNITS_MAX, atMost(name, MINOR_UNITS_MAX, 'minor units'))
-const celsius = (name: string) => z.number({ error: `${name} must be a number` }).min(-60, `${name} must be at least -60 °C`).max(80, `${name} must be at most 80 °C`)
+// Temperatures and weights may be typed in either unit (`90 °F`, `1 lb 4 oz`); they are stored in the unit their name ends with.
+const celsius = (name: string) => temperatureField(name, { stored: 'C', min: -60, max: 80 })
+const grams = (name: string) => weightField(name, { max: 50_000 })
+const inches = (name: string, max: number) => lengthField(name, { positive: true, max })
 
 /** Longest list of formulas, tubes, boxes, zones or regions the shop keeps. */
 const LIST_MAX = 50
@@ -68,7 +72,7 @@ const waxFormulaSchema = z.object({
 
 const fitSettingsSchema = z.object({
   /** Fit is judged at about 75 °F: common practice, no source. */
-  referenceTemperatureF: z.number().min(32).max(120).default(75),
+  referenceTemperatureF: temperatureField('referenceTemperatureF', { stored: 'F', min: 32, max: 120 }).default(75),
   /** Bore used when none is given: outside diameter less two walls of the standard blank. */
   boreDiameterIn: lengthField('boreDiameterIn', { positive: true, ...lengthBounds.boreIn })
     .default(standardBlankDimensions.outsideDiameterIn - 2 * standardBlankDimensions.wallIn),
@@ -91,23 +95,23 @@ const heatSettingsSchema = z.object({
   /** Forecast high (°C) from which a parcel is held back. A shop choice. */
   holdHighC: celsius('holdHighC').default(32),
   /** Both thresholds drop by this much for every day in transit beyond the first. */
-  stricterPerTransitDayC: nonNegativeNumber('stricterPerTransitDayC', 20, '°C').default(1),
+  stricterPerTransitDayC: temperatureField('stricterPerTransitDayC', { stored: 'C', min: 0, max: 20, difference: true }).default(1),
 }).refine(heat => heat.holdHighC >= heat.cautionHighC, { message: 'holdHighC must not be below cautionHighC', path: ['holdHighC'] })
 
 const dimensionsSchema = z.object({
-  lengthIn: positiveNumber('lengthIn', 120, 'in'),
-  widthIn: positiveNumber('widthIn', 120, 'in'),
-  heightIn: positiveNumber('heightIn', 120, 'in'),
+  lengthIn: inches('lengthIn', 120),
+  widthIn: inches('widthIn', 120),
+  heightIn: inches('heightIn', 120),
 })
 
 const tubeSchema = z.object({
   id: code,
   label: name,
-  insideDiameterIn: positiveNumber('insideDiameterIn', 12, 'in'),
-  insideLengthIn: positiveNumber('insideLengthIn', 24, 'in'),
-  outsideDiameterIn: positiveNumber('outsideDiameterIn', 12, 'in'),
-  outsideLengthIn: positiveNumber('outsideLengthIn', 24, 'in'),
-  weightG: nonNegativeNumber('weightG', 50_000, 'g'),
+  insideDiameterIn: inches('insideDiameterIn', 12),
+  insideLengthIn: inches('insideLengthIn', 24),
+  outsideDiameterIn: inches('outsideDiameterIn', 12),
+  outsideLengthIn: inches('outsideLengthIn', 24),
+  weightG: grams('weightG'),
 })
 
 const boxSchema = z.object({
@@ -115,8 +119,8 @@ const boxSchema = z.object({
   label: name,
   inside: dimensionsSchema,
   /** Board thickness; the outside is the inside plus two walls each way. */
-  wallIn: nonNegativeNumber('wallIn', 2, 'in'),
-  weightG: nonNegativeNumber('weightG', 50_000, 'g'),
+  wallIn: lengthField('wallIn', { max: 2 }),
+  weightG: grams('weightG'),
 })
 
 const box = (id: string, lengthIn: number, widthIn: number, heightIn: number, weightG: number) => ({
@@ -135,9 +139,9 @@ const packingSettingsSchema = z.object({
   /** Cubic inches per pound for dimensional weight (139 is the usual US carrier figure; set your carrier's). */
   dimensionalDivisorIn3PerLb: positiveNumber('dimensionalDivisorIn3PerLb', 1000, 'in³ per lb').default(139),
   /** A cylinder as it leaves the bench; an estimate, weigh your own. */
-  cylinderWeightG: nonNegativeNumber('cylinderWeightG', 5000, 'g').default(70),
+  cylinderWeightG: weightField('cylinderWeightG', { max: 5000 }).default(70),
   /** Cushioning and filler per parcel. */
-  fillerWeightG: nonNegativeNumber('fillerWeightG', 20_000, 'g').default(150),
+  fillerWeightG: weightField('fillerWeightG', { max: 20_000 }).default(150),
   /** Most cylinders one parcel takes; also how shipping is counted. */
   cylindersPerParcel: z.number().int().min(1).max(48).default(6),
   tubes: z.array(tubeSchema).min(1).max(LIST_MAX, `at most ${LIST_MAX} entries`).refine(uniqueIds, 'tube ids must be unique').default([

@@ -1,18 +1,11 @@
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
+import { celsiusToFahrenheit, fahrenheitToCelsius } from './units'
 
 export type TemperatureUnit = 'C' | 'F'
 
 /** Delivery-van interiors can reach about 60 °C (shipping guidance). */
 export const PARCEL_INTERIOR_PEAK_C = 60
-
-export function fahrenheitToCelsius(fahrenheit: number): number {
-  return ((fahrenheit - 32) * 5) / 9
-}
-
-export function celsiusToFahrenheit(celsius: number): number {
-  return (celsius * 9) / 5 + 32
-}
 
 export function temperatureInCelsius(value: number, unit: TemperatureUnit): number {
   return unit === 'C' ? value : fahrenheitToCelsius(value)

@@ -1,6 +1,7 @@
 import { standardBlankDimensions } from './cylinder'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings, PackingBox, PackingTube } from './engineSettings'
+import { GRAMS_PER_POUND } from './units'
 
 /*
  * Packing a parcel of cylinders (carrier packing guidance): each cylinder in its own padded tube, the
@@ -9,8 +10,6 @@ import type { EngineSettings, PackingBox, PackingTube } from './engineSettings'
  * all round it. Units: inches and grams. Dimensional weight = outer box L × W × H (outside, in³) ÷ the
  * divisor in in³ per lb; billable weight = max(actual, dimensional), each rounded up to the whole gram.
  */
-
-export const GRAMS_PER_POUND = 453.59237
 
 /** Sizes of a box or a load, largest first, so that "fits" is a comparison side by side. */
 export type PackingExtent = [number, number, number]

@@ -5,6 +5,7 @@ import { blankCodePattern, blankStates } from './blankLifecycle'
 import { cylinderFormats } from './cylinder'
 import { idField, idParamsSchema } from './ids'
 import { lengthField } from './length'
+import { temperatureField } from './units'
 
 // Inputs of the wax-batch, blank-register and surface-test routes, shared with their forms. Every
 // issue names its field, so a 400 can be shown beside the right input.
@@ -34,7 +35,8 @@ export const castingBounds = {
   castCount: { min: 0, max: 1000 },
   rejectedAtCasting: { min: 0, max: 1000 },
 } as const
-const castingTemp = (field: 'meltTempC' | 'pourTempC' | 'mouldTempC') => numberInputField(field, castingBounds[field]).nullable()
+// Typed in either unit (`302 °F`), stored in °C.
+const castingTemp = (field: 'meltTempC' | 'pourTempC' | 'mouldTempC') => temperatureField(field, { stored: 'C', ...castingBounds[field] }).nullable()
 const castingCount = (field: 'coolingMinutes' | 'castCount' | 'rejectedAtCasting') => numberInputField(field, { integer: true, ...castingBounds[field] }).nullable()
 const castingFields = {
   meltTempC: castingTemp('meltTempC'),
@@ -56,7 +58,7 @@ export const waxBatchFields = z.object({
   pourDate: z.iso.date({ error: 'pourDate must be a date like 2026-03-14' }),
   /** Volumetric expansion per kelvin (e.g. 0.00081 for stearic acid); the heat-and-fit calculator uses a third of it. */
   volumetricExpansionPerK: numberInputField('volumetricExpansionPerK', { positive: true, max: 0.01 }),
-  softeningPointC: numberInputField('softeningPointC', { min: 0, max: 200 }).nullable(),
+  softeningPointC: temperatureField('softeningPointC', { stored: 'C', min: 0, max: 200 }).nullable(),
   notes: workshopText('notes', 2000),
   /** The wax formula of the shop's list (Workshop figures) the batch was cast from; null: the shop's first. */
   waxFormulaId: z.string({ error: 'waxFormulaId must be text' }).trim().min(1, 'waxFormulaId is empty').max(40, 'waxFormulaId is too long').nullable(),

@@ -16,7 +16,7 @@ describe('the shop\'s units: GET /api/shop/units, PUT /api/workshop/settings/uni
     const anyone = new Client()
     const before = await anyone.get('/api/shop/units')
     expect(before.status).toBe(200)
-    expect(before.body).toEqual({ temperature: 'C', length: 'in', weight: 'kg', locale: 'en-GB' })
+    expect(before.body).toEqual({ temperature: 'F', length: 'in', weight: 'lb', locale: 'en-US' })
 
     const shipper = await signedIn(account('shipper').email, account('shipper').password)
     expect((await shipper.put('/api/workshop/settings/units', { temperature: 'F' })).status).toBe(403)
@@ -30,9 +30,9 @@ describe('the shop\'s units: GET /api/shop/units, PUT /api/workshop/settings/uni
     expect((await anyone.get('/api/shop/units')).body).toEqual(before.body)
 
     try {
-      const changed = await maker.put('/api/workshop/settings/units', { temperature: 'F', length: 'mm', weight: 'lb', locale: 'en-US' })
+      const changed = await maker.put('/api/workshop/settings/units', { temperature: 'C', length: 'mm', weight: 'kg', locale: 'en-GB' })
       expect(changed.status).toBe(200)
-      expect((await anyone.get('/api/shop/units')).body).toEqual({ temperature: 'F', length: 'mm', weight: 'lb', locale: 'en-US' })
+      expect((await anyone.get('/api/shop/units')).body).toEqual({ temperature: 'C', length: 'mm', weight: 'kg', locale: 'en-GB' })
     }
     finally {
       expect((await maker.put('/api/workshop/settings/units', before.body)).status).toBe(200)

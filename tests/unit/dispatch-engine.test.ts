@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { engineSettingsSchema } from '../../shared/utils/engineSettings'
 import { addCalendarDays, heatRisk, nextEarlyWeekShippingDay, nextShippingDay, shippingWeekdays } from '../../shared/utils/heat'
-import { choosePackage, GRAMS_PER_POUND } from '../../shared/utils/packing'
+import { choosePackage } from '../../shared/utils/packing'
+import { GRAMS_PER_POUND } from '../../shared/utils/units'
 import { dispatchShipSchema, normaliseTrackingNumber, packingChecklist, s10CheckDigit } from '../../shared/utils/dispatchSchemas'
 
 const weekday = (isoDate: string) => new Date(`${isoDate}T00:00:00Z`).getUTCDay()

@@ -2,14 +2,13 @@ import { describe, expect, it } from 'vitest'
 import { defaultEngineSettings, engineSettingsSchema } from '../../shared/utils/engineSettings'
 import {
   boreGrowthIn,
-  celsiusToFahrenheit,
-  fahrenheitToCelsius,
   heatFitShift,
   heatRisk,
   linearExpansionFromVolumetric,
   nextEarlyWeekShippingDay,
   taperTravelIn,
 } from '../../shared/utils/heat'
+import { celsiusToFahrenheit, fahrenheitToCelsius } from '../../shared/utils/units'
 
 describe('thermal growth of the bore', () => {
   it('a 10 °C rise with α = 250×10⁻⁶/K widens a 1.8 in bore by 0.0045 in (arithmetic on handbook coefficients)', () => {

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { temperatureInCelsius } from '../../shared/utils/heat'
 import {
   defaultUnitPreferences, formatLength, formatTemperature, formatWeight, fromCelsius, gramsToPoundsOunces,
-  toGrams, toInches, unitPreferencesSchema,
+  temperatureField, toGrams, toInches, unitPreferencesSchema, weightField,
 } from '../../shared/utils/units'
 import { countOf, formatDay } from '../../shared/utils/wording'
 
@@ -53,7 +53,7 @@ describe('formatting in the shop\'s units', () => {
     const parsed = unitPreferencesSchema.safeParse({ temperature: 'K' })
     expect(parsed.success).toBe(false)
     expect(parsed.error?.issues[0]?.path).toEqual(['temperature'])
-    expect(unitPreferencesSchema.parse({})).toEqual({ temperature: 'C', length: 'in', weight: 'kg', locale: 'en-GB' })
+    expect(unitPreferencesSchema.parse({})).toEqual({ temperature: 'F', length: 'in', weight: 'lb', locale: 'en-US' })
   })
 })
 
@@ -69,5 +69,41 @@ describe('counted words and dates', () => {
     expect(formatDay('2026-12-03')).toBe('3 Dec 2026')
     expect(formatDay('2026-12-03', 'en-US')).toBe('Dec 3, 2026')
     expect(formatDay('2026-01-01', 'en-GB', 'long')).toBe('1 January 2026')
+  })
+})
+
+describe('figures typed with their unit', () => {
+  const parse = (schema: { safeParse: (value: unknown) => { success: boolean, data?: unknown, error?: { issues: { message: string }[] } } }, value: unknown) => {
+    const result = schema.safeParse(value)
+    return result.success ? result.data : `refused: ${result.error?.issues[0]?.message}`
+  }
+
+  it('takes a temperature in either unit and stores it in the field\'s own', () => {
+    const holdHighC = temperatureField('holdHighC', { stored: 'C', min: -60, max: 80 })
+    expect(parse(holdHighC, 32)).toBe(32)
+    expect(parse(holdHighC, '32')).toBe(32)
+    // 89.6 °F = 32 °C (NIST SP 811 B.8: t/°C = (t/°F − 32)/1.8).
+    expect(parse(holdHighC, '89.6 °F')).toBe(32)
+    expect(parse(holdHighC, '89.6F')).toBe(32)
+    expect(parse(holdHighC, '−5,5 °C')).toBe(-5.5)
+    // 92 meant as °F but stored as °C is refused with both units named, not taken as a heatwave.
+    expect(parse(temperatureField('softeningPointC', { stored: 'C', min: 0, max: 80 }), '192')).toBe('refused: softeningPointC must be at most 80 °C (176 °F): check the figure and its unit')
+    const referenceF = temperatureField('referenceTemperatureF', { stored: 'F', min: 32, max: 120 })
+    expect(parse(referenceF, '23.9 C')).toBeCloseTo(75.02, 2)
+    expect(parse(referenceF, 'warm')).toMatch(/^refused: referenceTemperatureF must be a temperature/)
+    expect(parse(referenceF, '75 K')).toMatch(/^refused: referenceTemperatureF must be a temperature/)
+  })
+
+  it('takes a weight in grams, kilograms, pounds and ounces and stores grams', () => {
+    const weighed = weightField('weighedG', { max: 30_000 })
+    expect(parse(weighed, 575)).toBe(575)
+    expect(parse(weighed, '575 g')).toBe(575)
+    expect(parse(weighed, '1,2 kg')).toBe(1200)
+    // 1 lb 4 oz = 20 oz × 28.349 523 125 g = 566.990 g (NIST SP 811 B.8).
+    expect(parse(weighed, '1 lb 4 oz')).toBeCloseTo(566.990, 3)
+    expect(parse(weighed, '20oz')).toBeCloseTo(566.990, 3)
+    expect(parse(weighed, '2 stone')).toMatch(/^refused: weighedG must be a weight/)
+    expect(parse(weighed, '-3 g')).toMatch(/^refused: weighedG must be a weight/)
+    expect(parse(weighed, '100 kg')).toMatch(/^refused: weighedG must be at most 30000 g \(66 lb 2\.2 oz\)/)
   })
 })

@@ -35,11 +35,6 @@ export function orderChecklist(packing: ReturnType<typeof orderPacking>, setting
   return packingChecklist({ cushioningIn: settings.packing.cushioningIn, doubleBox: packing.ok ? packing.innerBox !== null : settings.packing.doubleBoxFragile })
 }
 
-/** The unit the shop reads forecasts in: °F for a shop that prices in US dollars, °C otherwise. */
-export function shopTemperatureUnit(settings: EngineSettings): 'C' | 'F' {
-  return settings.prices.currency === 'USD' ? 'F' : 'C'
-}
-
 /** One order as the packer sees it: the queue entry, the boxes, the packing for the chosen box, the checklist and every heat check. */
 export async function dispatchDetail(db: Database | Transaction, number: string, boxId?: string) {
   const settings = await getSetting('engine', db)
@@ -60,6 +55,6 @@ export async function dispatchDetail(db: Database | Transaction, number: string,
     heatChecks: checks,
     carriers: settings.dispatch.carriers.map(carrier => ({ id: carrier.id, label: carrier.label })),
     shipOn: Object.entries(settings.dispatch.shipOn).filter(([, ships]) => ships).map(([name]) => name),
-    temperatureUnit: shopTemperatureUnit(settings),
+    temperatureUnit: (await getSetting('units', db)).temperature,
   }
 }

@@ -44,6 +44,6 @@ export async function dispatchQueue(db: Database, q?: string) {
     packed: await dispatchEntries(db, packed.slice(0, DISPATCH_LIST_LIMIT), settings),
     shipped: await dispatchEntries(db, shipped.slice(0, DISPATCH_LIST_LIMIT), settings),
     more: [ready, packed, shipped].some(rows => rows.length > DISPATCH_LIST_LIMIT),
-    temperatureUnit: shopTemperatureUnit(settings),
+    temperatureUnit: (await getSetting('units', db)).temperature,
   }
 }
