@@ -44,7 +44,7 @@ function demoBlanks(): DemoProduct[] {
     { wax: '', box: '#d8c3a0', label: '#6d4c2f', backdrop: '#efe6d6' },
     { wax: '', box: '#cfd8c9', label: '#2f5d4a', backdrop: '#e5ece2' },
   ]
-  return defaultEngineSettings.fit.waxFormulas.flatMap((formula, formulaIndex) => cylinderFormats.map((format, formatIndex): DemoProduct => {
+  return defaultEngineSettings.fit.waxFormulas.flatMap(formula => cylinderFormats.map((format, formatIndex): DemoProduct => {
     const minutes = format === 'two_minute' ? '2-minute' : '4-minute'
     const hard = formula.id === 'stearic_acid'
     return {
@@ -61,7 +61,9 @@ function demoBlanks(): DemoProduct[] {
       condition: 'new',
       runningTimeS: null,
       priceMinor: defaultEngineSettings.prices.blankMinor[format],
-      stock: [24, 12, 9, 5][formulaIndex * cylinderFormats.length + formatIndex] ?? 6,
+      // Counted from the register once the demo workshop's blanks are in (seedDemo ends with the count).
+      stock: 0,
+      stockSource: 'register',
       editionSize: null,
       madeToOrder: false,
       hidden: false,

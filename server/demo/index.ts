@@ -5,6 +5,7 @@ import { defaultEngineSettings } from '#shared/utils/engineSettings'
 import { demoAccounts } from '#shared/utils/demoAccounts'
 import { shopProfileSchema } from '#shared/utils/shopProfile'
 import type { Database } from '../utils/platform/db'
+import { refreshBlankStock } from '../utils/shop/blankStock'
 import { productCount, seedDemoCatalogue } from './catalogue'
 import { seedDemoTickets } from './tickets'
 import { seedDemoWorkshop } from './workshop'
@@ -27,6 +28,8 @@ export async function seedDemo(db: Database) {
   await seedDemoCatalogue(db)
   await seedDemoWorkshop(db)
   await seedDemoTickets(db)
+  // The demo's blank products sell what the register holds: its free, passed blanks of each format and wax.
+  await db.transaction(tx => refreshBlankStock(tx))
 }
 
 export async function seedIfEmpty(db: Database) {
@@ -41,4 +44,5 @@ export async function seedIfEmpty(db: Database) {
   if (!blank) await seedDemoWorkshop(db)
   const [recorder] = await db.select({ id: recorders.id }).from(recorders).limit(1)
   if (!recorder) await seedDemoTickets(db)
+  await db.transaction(tx => refreshBlankStock(tx))
 }

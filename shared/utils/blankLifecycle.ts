@@ -21,7 +21,7 @@ import type { CylinderFormat } from './cylinder'
  *   reserve      tested_pass                            reserved                 (tickets)
  *   release      reserved                               tested_pass              (tickets)
  *   cut          reserved                               cut                      (tickets)
- *   ship         cut, tested_pass (a plain blank sold)  shipped                  (dispatch)
+ *   ship         cut, reserved (a blank sold, packed)   shipped                  (dispatch)
  *
  * Decisions, and why:
  *  - Reaming stops once shaving has begun: the shaved surface is cut true to the bore as it sits on
@@ -86,7 +86,7 @@ export const blankTransitions: Record<BlankAction, BlankTransition> = {
   reserve: { from: ['tested_pass'], to: 'reserved', spendsSurface: false, unheldOnly: false, by: 'tickets' },
   release: { from: ['reserved'], to: 'tested_pass', spendsSurface: false, unheldOnly: false, by: 'tickets' },
   cut: { from: ['reserved'], to: 'cut', spendsSurface: false, unheldOnly: false, by: 'tickets' },
-  ship: { from: ['cut', 'tested_pass'], to: 'shipped', spendsSurface: false, unheldOnly: false, by: 'dispatch' },
+  ship: { from: ['cut', 'reserved'], to: 'shipped', spendsSurface: false, unheldOnly: false, by: 'dispatch' },
 }
 
 /** The open ticket holding a blank, as the refusal names it. */

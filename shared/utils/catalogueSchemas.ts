@@ -8,6 +8,9 @@ import { cylinderFormatTable, cylinderFormats, cylinderSpeedsRpm, playingTimeMin
 export const editableProductKinds = ['blank', 'recorded'] as const
 export type EditableProductKind = typeof editableProductKinds[number]
 
+export const blankStockSources = ['register', 'manual'] as const
+export type BlankStockSource = typeof blankStockSources[number]
+
 export const productSlugPattern = /^[a-z0-9]+(?:-[a-z0-9]+)*$/
 export const PRODUCT_SLUG_MAX = 80
 
@@ -79,6 +82,8 @@ export const productFields = z.object({
   hidden: z.boolean({ error: 'hidden must be true or false' }),
   /** The wax formula of the shop's list (Workshop figures) a made cylinder is cut on; null: the shop's first. */
   waxFormulaId: z.string({ error: 'waxFormulaId must be text' }).trim().min(1, 'waxFormulaId is empty').max(40, 'waxFormulaId is too long').nullable(),
+  /** A blank's stock: counted from the register's free passed blanks of its format and wax, or typed by the maker. */
+  stockSource: z.enum(blankStockSources, { error: 'stockSource must be register or manual' }),
 })
 
 export type ProductFields = z.output<typeof productFields>
@@ -148,6 +153,8 @@ export const productCreateSchema = productFields
     sampleFileId: productFields.shape.sampleFileId.default(productDefaults.sampleFileId),
     hidden: productFields.shape.hidden.default(productDefaults.hidden),
     waxFormulaId: productFields.shape.waxFormulaId.default(null),
+    // Left out: the stock given is the count (the catalogue form always says which).
+    stockSource: productFields.shape.stockSource.default('manual'),
   })
   .superRefine(addProblems)
 

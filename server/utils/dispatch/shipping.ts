@@ -19,7 +19,7 @@ async function cylinderCount(tx: Transaction, orderId: number): Promise<number> 
 
 /**
  * Packs an order that is ready to pack: every checklist line that applies ticked, the engine's packing
- * for the chosen outer box, the weight on the scale. The order row is locked and the move conditional,
+ * for the chosen outer box, the weight on the scale, and a register blank tied to each blank sold. The order row is locked and the move conditional,
  * so two presses pack once (the second is a 409 saying it is packed).
  */
 export async function packOrder(db: Database, number: string, input: DispatchPackInput, userId: number) {
@@ -32,13 +32,15 @@ export async function packOrder(db: Database, number: string, input: DispatchPac
     if (!packing.ok) throw fieldError(input.boxId === undefined ? 'checklist' : 'boxId', packing.reason)
     const missing = orderChecklist(packing, settings).filter(line => !input.checklist.includes(line.id))
     if (missing.length) throw fieldError('checklist', `tick every line before packing; missing: ${missing.map(line => line.id).join(', ')}`)
+    // Each unit of a blank product goes out as one specific register blank (409 when the register has none).
+    const blankCodes = await tieOrderBlanks(tx, order, userId)
     const packedAt = new Date()
     const moved = await moveOrder(tx, order.id, ['ready_to_pack'], 'packed', {}, `Packed in ${packing.outerBox}${input.weighedG ? `, ${input.weighedG} g on the scale` : ''}.`, userId)
     if (!moved) throw dispatchStateError(order.number, order.status, 'it changed meanwhile')
     const checklist = [...new Set(input.checklist)]
     const row = { packing: packing as Record<string, unknown>, weighedG: input.weighedG ?? null, checklist, packedBy: userId, packedAt }
     await tx.insert(shipments).values({ orderId: order.id, ...row }).onConflictDoUpdate({ target: shipments.orderId, set: row })
-    return { number: order.number, status: moved.status, packing, weighedG: row.weighedG, checklist, packedAt }
+    return { number: order.number, status: moved.status, packing, weighedG: row.weighedG, checklist, packedAt, blanks: [...blankCodes.values()].flat() }
   })
 }
 
@@ -78,7 +80,7 @@ async function queueShippedMail(tx: Transaction, order: OrderRow, shipped: { car
 
 /**
  * Ships a packed order: carrier and tracking number kept, the order shipped, its tickets done and their
- * blanks shipped, and one "on its way" mail with care and heat advice. Locked and conditional, so two
+ * blanks shipped (and the blanks packed for it), and one "on its way" mail with care and heat advice. Locked and conditional, so two
  * presses ship once and mail once; the second is a 409 saying it has shipped.
  */
 export async function shipOrder(db: Database, number: string, input: DispatchShipInput, userId: number) {
@@ -90,6 +92,7 @@ export async function shipOrder(db: Database, number: string, input: DispatchShi
     const moved = await moveOrder(tx, order.id, ['packed'], 'shipped', {}, `Shipped with ${carrierLabel(settings, input.carrier)}, tracking ${input.trackingNumber}.`, userId)
     if (!moved) throw dispatchStateError(order.number, order.status, 'it changed meanwhile')
     const ticketsDone = await closeTicketsOfShippedOrder(tx, order.id, userId)
+    await shipOrderBlanks(tx, order.id, order.number, userId)
     const shippedAt = new Date()
     const row = { carrier: input.carrier, trackingNumber: input.trackingNumber, shippedBy: userId, shippedAt, deliveredAt: null, deliveredVia: null }
     await tx.insert(shipments).values({ orderId: order.id, ...row }).onConflictDoUpdate({ target: shipments.orderId, set: row })

@@ -60,6 +60,7 @@ export async function packingSlipOrder(db: Database, number: string): Promise<Pa
   const made = await db.select({ id: tickets.id, orderItemId: tickets.orderItemId, unit: tickets.unit, stage: tickets.stage, cutAt: tickets.cutAt, blankCode: blanks.code })
     .from(tickets).leftJoin(blanks, eq(blanks.id, tickets.blankId))
     .where(eq(tickets.orderId, order.id)).orderBy(asc(tickets.orderItemId), asc(tickets.unit))
+  const packedBlanks = await orderBlankCodes(db, order.id)
   const siteUrl = String(useRuntimeConfig().siteUrl).replace(/\/+$/, '')
   // Whoever unpacks the parcel (perhaps not the buyer: a gift) can open the certificate from its code
   // without signing in: the address carries that certificate's own key, which opens nothing else.
@@ -70,6 +71,11 @@ export async function packingSlipOrder(db: Database, number: string): Promise<Pa
     const rpm = item.messageRpm ?? item.productRpm ?? standardCylinderRpm
     const base = { title: item.title, format: item.format, rpm }
     const units = made.filter(ticket => ticket.orderItemId === item.id)
+    const packed = packedBlanks.get(item.id) ?? []
+    if (units.length === 0 && packed.length > 0) {
+      // A blank sold from the register: one line per blank packed, with its code.
+      return packed.map((blankCode, index) => ({ ...base, quantity: 1, unitNote: item.quantity > 1 ? `blank ${index + 1} of ${item.quantity}` : null, blankCode, certificateUrl: null }))
+    }
     if (units.length === 0) return [{ ...base, quantity: item.quantity, unitNote: null, blankCode: null, certificateUrl: null }]
     return units.map(ticket => ({
       ...base,

@@ -1,14 +1,39 @@
 import { and, asc, count, desc, eq, ilike, or, type SQL } from 'drizzle-orm'
 import { products } from '../../db/schema'
 import type { Database } from '../platform/db'
+import type { EngineSettings } from '#shared/utils/engineSettings'
 
 export function fileUrl(id: string | null | undefined): string | null {
   return id ? `/files/${id}` : null
 }
 
-/** The public face of a product: nothing the maker keeps to themselves. */
-export function publicProduct(product: ProductRow, currency: string) {
+const inchesAndMillimetres = (inches: number, places = 3) => `${Number(inches.toFixed(places))} in · ${inchesToMillimetres(inches).toFixed(1)} mm`
+
+/**
+ * What a buyer of a plain blank needs to know: the standard blank's length and outside diameter, its bore
+ * and fit (the shop's bore, tapered to the standard mandrel), its wax by the shop's name, how many fresh
+ * surfaces shaving can give before the shop's floor diameter, and whether each blank is surface-tested
+ * before it is packed (a blank counted from the register is; a typed count says nothing of it).
+ */
+export function blankProductFacts(product: Pick<ProductRow, 'waxFormulaId' | 'stockSource'>, engine: EngineSettings) {
+  const { outsideDiameterIn, lengthIn } = standardBlankDimensions
+  const wax = engine.fit.waxFormulas.find(formula => formula.id === product.waxFormulaId) ?? engine.fit.waxFormulas[0]!
+  const { minimumDiameterIn, depthPerSurfaceIn } = engine.shaving
   return {
+    length: `${formatInchFraction(lengthIn)} in · ${inchesToMillimetres(lengthIn).toFixed(1)} mm`,
+    outsideDiameter: inchesAndMillimetres(outsideDiameterIn),
+    bore: inchesAndMillimetres(engine.fit.boreDiameterIn),
+    fit: 'Standard taper: reamed to seat on a standard phonograph mandrel',
+    wax: wax.label,
+    surfaces: blankSurfacesLeft(outsideDiameterIn, minimumDiameterIn, depthPerSurfaceIn).surfacesLeft ?? 0,
+    tested: product.stockSource === 'register',
+  }
+}
+
+/** The public face of a product: nothing the maker keeps to themselves. With the shop's figures, a blank's facts too. */
+export function publicProduct(product: ProductRow, currency: string, engine?: EngineSettings) {
+  return {
+    blank: product.kind === 'blank' && engine ? blankProductFacts(product, engine) : null,
     slug: product.slug,
     kind: product.kind,
     title: product.title,

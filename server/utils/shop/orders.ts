@@ -73,6 +73,8 @@ export async function returnStock(tx: Database | Transaction, orderId: number) {
   for (const item of items) {
     if (item.productId) await tx.update(products).set({ stock: sql`${products.stock} + ${item.quantity}` }).where(eq(products.id, item.productId))
   }
+  // Blanks counted from the register: the order no longer promises its units, so count the pools again.
+  await refreshBlankStock(tx)
   return true
 }
 
@@ -125,6 +127,7 @@ export async function restockRefund(tx: Database | Transaction, refundId: number
   for (const row of rows) {
     if (row.productId) await tx.update(products).set({ stock: sql`${products.stock} + ${row.quantity}` }).where(eq(products.id, row.productId))
   }
+  await refreshBlankStock(tx)
   return rows.length
 }
 
@@ -159,6 +162,7 @@ export async function reReserveStock(tx: Database | Transaction, orderId: number
         if (!taken) throw new NotAllInStock()
       }
       await savepoint.update(orders).set({ stockReleasedAt: null }).where(eq(orders.id, orderId))
+      await refreshBlankStock(savepoint)
     })
     return true
   }
@@ -253,6 +257,7 @@ export async function createCheckoutSession(order: Order, lines: { title: string
 /** What a customer (or the maker) sees of one order: no payment-service ids. */
 export async function orderView(db: Database | Transaction, order: Order) {
   const items = await db.select().from(orderItems).where(eq(orderItems.orderId, order.id))
+  const packedBlanks = await orderBlankCodes(db, order.id)
   const timeline = await db.select({ at: orderEvents.at, from: orderEvents.fromStatus, to: orderEvents.toStatus, note: orderEvents.note })
     .from(orderEvents).where(eq(orderEvents.orderId, order.id)).orderBy(orderEvents.at, orderEvents.id)
   return {
@@ -270,7 +275,8 @@ export async function orderView(db: Database | Transaction, order: Order) {
     createdAt: order.createdAt,
     paidAt: order.paidAt,
     reservationExpiresAt: order.reservationExpiresAt,
-    items: items.map(item => ({ id: item.id, title: item.title, kind: item.kind, format: item.format, quantity: item.quantity, unitPriceMinor: item.unitPriceMinor, lineTotalMinor: item.lineTotalMinor, madeToOrder: item.madeToOrder })),
+    // blankCodes: the register blanks packed for a blank item, one per unit (empty until it is packed).
+    items: items.map(item => ({ id: item.id, title: item.title, kind: item.kind, format: item.format, quantity: item.quantity, unitPriceMinor: item.unitPriceMinor, lineTotalMinor: item.lineTotalMinor, madeToOrder: item.madeToOrder, blankCodes: packedBlanks.get(item.id) ?? [] })),
     timeline,
     // Personal messages with their proofs (empty for an order of cylinders only).
     messages: await orderMessages(db, order),

@@ -1,6 +1,6 @@
 import { and, asc, count, desc, eq, ilike, inArray, ne, sql, type SQL } from 'drizzle-orm'
 import type { H3Event } from 'h3'
-import { blankCodeCounters, blankLog, blanks, orders, surfaceTests, tickets, waxBatches } from '../../db/schema'
+import { blankCodeCounters, blankLog, blanks, orderItemBlanks, orders, surfaceTests, tickets, waxBatches } from '../../db/schema'
 import type { Database, Transaction } from '../platform/db'
 
 type BlankLogKind = typeof blankLog.$inferInsert['kind']
@@ -77,33 +77,77 @@ export interface BlankMove {
   details?: { ticketId?: number, testCutId?: number }
   /** Back-dates the move and its log row (the demo seed). */
   at?: Date
+  /** Where the blank goes; the usual place of the new state when left out (`blankUsualPlaces`). */
+  location?: string
 }
 
 /**
- * A blank's move from one state to another on behalf of a ticket or a test cut, logged with its reason.
- * Conditional: it happens only while the blank is still in `from`, so two requests cannot both move
- * it. Returns the moved row, or null when the blank had already left `from`. Moves that the maker
- * makes on the blank itself go through changeBlank; no other code writes a blank's state.
+ * A blank's move from one state to another on behalf of a ticket, a test cut or dispatch, logged with its
+ * reason. Conditional: it happens only while the blank is still in `from`, so two requests cannot both
+ * move it. The blank goes to the move's location, else the usual place of its new state, and the stock of
+ * blank products counted from the register follows in the same transaction. Returns the moved row, or
+ * null when the blank had already left `from`. Moves that the maker makes on the blank itself go through
+ * changeBlank; no other code writes a blank's state.
  */
 export async function moveBlank(tx: Database | Transaction, blankId: number, move: BlankMove): Promise<BlankRow | null> {
   const at = move.at ?? new Date()
-  const [moved] = await tx.update(blanks).set({ state: move.to, updatedAt: at })
+  const location = move.location ?? blankUsualPlaces[move.to]
+  const [moved] = await tx.update(blanks).set({ state: move.to, location, updatedAt: at })
     .where(and(eq(blanks.id, blankId), eq(blanks.state, move.from))).returning()
   if (!moved) return null
   const data = { from: move.from, to: move.to, reason: move.reason, ...move.details } satisfies BlankStateLogData
   await tx.insert(blankLog).values({ blankId, kind: 'state', data, byUserId: move.byUserId, at })
+  await refreshBlankStock(tx)
   return moved
 }
 
 type BlankChanges = Partial<Pick<BlankRow, 'state' | 'diameterIn' | 'surfacesUsed' | 'location' | 'notes'>>
 
-/** Applies the changes; a move to another state is logged with its reason. `at` back-dates both (the demo seed). */
+/**
+ * Applies the changes; a move to another state is logged with its reason and takes the blank to the usual
+ * place of its new state unless the changes name a location (a location the maker typed stays until the
+ * next change of state). Any change naming a state (a test stored, even one that keeps the state) counts
+ * the register's blank stock again. `at` back-dates the change and its log (the demo seed).
+ */
 export async function changeBlank(tx: Transaction, blank: BlankRow, changes: BlankChanges, reason: string, byUserId: number | null, at?: Date): Promise<BlankRow> {
-  const [updated] = await tx.update(blanks).set({ ...changes, updatedAt: at ?? new Date() }).where(eq(blanks.id, blank.id)).returning()
+  const location = blankLocationAfter(blank, changes)
+  const [updated] = await tx.update(blanks).set({ ...changes, location, updatedAt: at ?? new Date() }).where(eq(blanks.id, blank.id)).returning()
   if (changes.state && changes.state !== blank.state) {
     await writeBlankLog(tx, blank.id, 'state', { from: blank.state, to: changes.state, reason } satisfies BlankStateLogData, byUserId, at)
   }
+  if (changes.state || changes.surfacesUsed !== undefined) await refreshBlankStock(tx)
   return updated!
+}
+
+/**
+ * Ties one free passed blank of the pool (format and wax) to each unit of an order's blank item not yet
+ * tied, quietest first, reserving it for the parcel (at the packing table). Returns the codes tied, or
+ * the number of units the register could not cover (nothing is tied then: the caller refuses the packing
+ * and its transaction rolls back).
+ */
+export async function reserveBlanksForItem(tx: Transaction, item: { orderId: number, orderItemId: number, units: number[], format: BlankRow['format'], waxFormulaId: string, orderNumber: string }, byUserId: number): Promise<{ codes: string[] } | { missing: number }> {
+  // A blank tied to another order is reserved or shipped already, so the picker's rule leaves it out.
+  const free = await eligibleBlanks(tx, item.format, { waxFormulaId: item.waxFormulaId, limit: item.units.length })
+  if (free.length < item.units.length) return { missing: item.units.length - free.length }
+  const codes: string[] = []
+  for (const [index, unit] of item.units.entries()) {
+    const blank = free[index]!
+    await tx.insert(orderItemBlanks).values({ orderId: item.orderId, orderItemId: item.orderItemId, unit, blankId: blank.id, tiedBy: byUserId })
+    const moved = await moveBlank(tx, blank.id, { from: 'tested_pass', to: 'reserved', reason: `Reserved for order ${item.orderNumber} at packing.`, byUserId, location: blankPackingPlace })
+    if (!moved) throw conflictError(`Blank ${blank.code} changed meanwhile; press Pack again.`)
+    codes.push(blank.code)
+  }
+  return { codes }
+}
+
+/** The blanks packed into an order leave with it: reserved → shipped. Returns how many moved. */
+export async function shipOrderBlanks(tx: Transaction, orderId: number, orderNumber: string, byUserId: number): Promise<number> {
+  const rows = await tx.select({ blankId: orderItemBlanks.blankId }).from(orderItemBlanks).where(eq(orderItemBlanks.orderId, orderId))
+  let shipped = 0
+  for (const row of rows) {
+    if (await moveBlank(tx, row.blankId, { from: 'reserved', to: 'shipped', reason: `Shipped with order ${orderNumber}.`, byUserId })) shipped++
+  }
+  return shipped
 }
 
 /** A reaming session as the log keeps it, with the engine's plan from the reading before. */

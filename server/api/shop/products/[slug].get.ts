@@ -11,7 +11,7 @@ export default defineEventHandler(async (event) => {
     const [product] = await db.select().from(products).where(and(eq(products.slug, slug), eq(products.hidden, false)))
     if (!product || product.kind === 'custom') return null
     const settings = await getSetting('engine', db)
-    return publicProduct(product, settings.prices.currency)
+    return publicProduct(product, settings.prices.currency, settings)
   })
   if (!shown) throw notFoundError('No such cylinder in the shop.')
   return shown

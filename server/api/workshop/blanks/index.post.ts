@@ -15,7 +15,8 @@ export default defineEventHandler(async (event) => {
       batchId: batch.id,
       format: input.format,
       diameterIn: input.diameterIn ?? null,
-      location: input.location,
+      // Where a new blank usually waits, unless the maker says where it is.
+      location: input.location || blankUsualPlaces.cast,
     }))).returning({ id: blanks.id, code: blanks.code, state: blanks.state })
     await tx.insert(blankLog).values(rows.map(row => ({
       blankId: row.id,

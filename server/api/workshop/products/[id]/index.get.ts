@@ -8,5 +8,6 @@ export default defineEventHandler(async (event) => {
   const [product] = await db.select().from(products).where(and(eq(products.id, id), inArray(products.kind, [...editableProductKinds])))
   if (!product) throw notFoundError('No such product in the catalogue.')
   const settings = await getSetting('engine', db)
-  return { currency: settings.prices.currency, product }
+  // A blank's stock source, the register's count of its pool and the typed count's difference from it.
+  return { currency: settings.prices.currency, product, blankStock: await blankStockView(db, product) }
 })

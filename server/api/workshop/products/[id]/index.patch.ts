@@ -24,6 +24,9 @@ export default defineEventHandler(async (event) => {
       })
     }
     const merged = { ...current, ...changes, kind: changes.kind ?? current.kind } as ProductFields
+    if (changes.stock !== undefined && merged.kind === 'blank' && merged.stockSource === 'register') {
+      throw fieldError('stock', 'this blank\'s stock is counted from the register; choose a manual count (stockSource) to type one')
+    }
     const problems = productRuleProblems(merged)
     if (Object.keys(problems).length > 0) {
       throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: Object.values(problems).join('; '), data: { fields: problems } })
@@ -33,7 +36,8 @@ export default defineEventHandler(async (event) => {
       if (taken) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `slug: "${changes.slug}" is already used by another product.`, data: { fields: { slug: 'already used by another product' } } })
     }
     await publishProductFiles(tx, changes.photoFileIds, changes.sampleFileId)
-    const [updated] = await tx.update(products).set({ ...changes, updatedAt: new Date() }).where(eq(products.id, id)).returning()
+    const [written] = await tx.update(products).set({ ...changes, updatedAt: new Date() }).where(eq(products.id, id)).returning()
+    const updated = written!.kind === 'blank' && written!.stockSource === 'register' ? await productAfterRegisterCount(tx, id) : written
     const logged = loggedProductFields
       .filter(field => updated![field] !== current[field])
       .map(field => ({ productId: id, userId: maker.id, field, oldValue: String(current[field]), newValue: String(updated![field]) }))
