@@ -2,6 +2,7 @@ import { standardBlankDimensions } from './cylinder'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings, PackingBox, PackingTube } from './engineSettings'
 import { GRAMS_PER_POUND } from './units'
+import { countOf } from './wording'
 
 /*
  * Packing a parcel of cylinders (carrier packing guidance): each cylinder in its own padded tube, the
@@ -171,15 +172,15 @@ export function choosePackage(request: PackingRequest, settings: EngineSettings 
     const smallestContent = contents.map(content => content.contentIn).sort((a, b) => volumeOf(a) - volumeOf(b))[0]
     if (wantedOuter) {
       const need = smallestContent ? `they need at least ${describe(grow(smallestContent, cushionIn))} in inside` : 'no other box holds them as an inner box'
-      return { ok: false, cylinders, reason: `Box ${wantedOuter.label} (${wantedOuter.id}, ${describe(insideOf(wantedOuter))} in inside) does not take ${cylinders} tube(s)${doubleBox ? ' double-boxed' : ''} with ${cushionIn} in of cushioning on every side: ${need}.` }
+      return { ok: false, cylinders, reason: `Box ${wantedOuter.label} (${wantedOuter.id}, ${describe(insideOf(wantedOuter))} in inside) does not take ${countOf(cylinders, 'tube')}${doubleBox ? ' double-boxed' : ''} with ${cushionIn} in of cushioning on every side: ${need}.` }
     }
     if (!smallestContent) {
-      return { ok: false, cylinders, reason: `No box fits: no box in the settings holds ${cylinders} tube(s) as an inner box; ${largestText}.` }
+      return { ok: false, cylinders, reason: `No box fits: no box in the settings holds ${countOf(cylinders, 'tube')} as an inner box; ${largestText}.` }
     }
     return {
       ok: false,
       cylinders,
-      reason: `No box fits: ${cylinders} tube(s)${doubleBox ? ' double-boxed' : ''} with ${cushionIn} in of cushioning on every side need at least ${describe(grow(smallestContent, cushionIn))} in inside; ${largestText}.`,
+      reason: `No box fits: ${countOf(cylinders, 'tube')}${doubleBox ? ' double-boxed' : ''} with ${cushionIn} in of cushioning on every side need at least ${describe(grow(smallestContent, cushionIn))} in inside; ${largestText}.`,
     }
   }
 

@@ -85,7 +85,7 @@ describe('the maker hears of every paid order, once', () => {
     const placed = await checkout([{ slug: made.slug, qty: 2 }, { slug: stock.slug, qty: 1 }])
     const eventId = await pay(placed)
     const mail = await waitFor(async () => mailsTo(makerEmail, `Paid order ${placed.orderNumber}`)[0], 10_000, 'the maker\'s mail')
-    expect(mail.subject).toBe(`Paid order ${placed.orderNumber}: 2 cylinder(s) to make`)
+    expect(mail.subject).toBe(`Paid order ${placed.orderNumber}: 2 cylinders to make`)
     expect(mail.text).toContain(`2 × ${made.title} — due `)
     expect(mail.text).toContain(`1 × ${stock.title}`)
     // Due after the shop's lead time (10 days by default).

@@ -115,7 +115,7 @@ describe('box choice and billable weight equal hand calculations (carrier dimens
     expect(larger.dimensionalWeightG).toBe(dimensional(14.4, 14.4, 12.4))
     const small = choosePackage({ cylinders: 3, outerBoxId: 'box-8x8x8' })
     expect(small.ok).toBe(false)
-    if (!small.ok) expect(small.reason).toMatch(/box-8x8x8.*does not take 3 tube\(s\).*10\.4 × 10\.4 × 10\.4 in inside/)
+    if (!small.ok) expect(small.reason).toMatch(/box-8x8x8.*does not take 3 tubes.*10\.4 × 10\.4 × 10\.4 in inside/)
     const unknown = choosePackage({ cylinders: 1, outerBoxId: 'crate' })
     expect(unknown.ok).toBe(false)
     if (!unknown.ok) expect(unknown.reason).toMatch(/No box "crate"/)

@@ -77,7 +77,7 @@ describe('choosePackage (carrier packing guidance: ≥ 2 in cushioning on every 
     const choice = choosePackage({ cylinders: 1 }, settings)
     expect(choice.ok).toBe(false)
     if (choice.ok) return
-    expect(choice.reason).toMatch(/^No box fits: 1 tube\(s\) double-boxed with 2 in of cushioning on every side need at least .* inside; the largest box is 8 × 8 × 8 in inside\.$/)
+    expect(choice.reason).toMatch(/^No box fits: 1 tube double-boxed with 2 in of cushioning on every side need at least .* inside; the largest box is 8 × 8 × 8 in inside\.$/)
   })
 
   it('sends more cylinders than one parcel takes back to be split', () => {

@@ -13,7 +13,7 @@ export function heatCheckOutcome(input: DispatchHeatCheckInput, settings: Engine
   const from = risk.level === 'hold' ? addCalendarDays(today, settings.dispatch.heatRecheckDays) : today
   const nextShipDate = nextShippingDay(from, weekdays, { daysInTransit: input.transitDays })
   const reasons = [...risk.reasons]
-  if (risk.level === 'hold') reasons.push(`Check again on or after ${nextShipDate}, the first shipping day ${settings.dispatch.heatRecheckDays} day(s) from now.`)
+  if (risk.level === 'hold') reasons.push(`Check again on or after ${nextShipDate}, the first shipping day ${countOf(settings.dispatch.heatRecheckDays, 'day')} from now.`)
   return {
     verdict: risk.level,
     reasons,

@@ -47,7 +47,7 @@ export async function queueMakerPaidOrderMail(tx: Db, orderId: number) {
   for (const maker of makers) {
     await queueMail(tx, {
       to: maker.email,
-      subject: makes ? `Paid order ${order.number}: ${toMake.reduce((sum, item) => sum + item.quantity, 0)} cylinder(s) to make` : `Paid order ${order.number}: to pack`,
+      subject: makes ? `Paid order ${order.number}: ${countOf(toMake.reduce((sum, item) => sum + item.quantity, 0), 'cylinder')} to make` : `Paid order ${order.number}: to pack`,
       dedupeKey: `maker-paid:${order.number}:${maker.id}`,
       content: {
         heading: makes ? `Order ${order.number} is paid: cylinders to make` : `Order ${order.number} is paid: to pack`,
