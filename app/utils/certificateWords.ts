@@ -1,3 +1,7 @@
+import { cylinderFormatTable } from '#shared/utils/cylinder'
+import { formatInches, formatMillimetres } from '#shared/utils/length'
+import type { Certificate } from '~/composables/useCertificate'
+
 /** A certificate's date in words ("3 December 2026"); a bare day is read at noon UTC so it never slips. */
 export const certificateDay = (iso: string | null | undefined) => iso ? new Date(iso.length === 10 ? `${iso}T12:00:00Z` : iso).toLocaleDateString('en-GB', { dateStyle: 'long' }) : '—'
 
@@ -5,3 +9,46 @@ export const certificateDay = (iso: string | null | undefined) => iso ? new Date
 export const formatDbfs = (value: number) => `${value.toFixed(1).replace('-', '−')} dBFS`
 
 export const certificateVerdictWords = { pass: 'pass', marginal: 'marginal', fail: 'fail', incomplete: 'incomplete (the take did not cover the surface)' } as const
+
+/** One line of a certificate's facts: what, and its value (in a fixed-width face for codes). */
+export interface CertificateFact { label: string, value: string, mono?: boolean }
+
+const present = (facts: (CertificateFact | false | null | undefined)[]) => facts.filter((fact): fact is CertificateFact => !!fact)
+
+/** The blank a cylinder was cut on: code, format, wax batch, diameter, surface, and the maker's reason where it was not the usual one. */
+export function certificateBlankFacts(certificate: Certificate): CertificateFact[] {
+  const { blank, batch } = certificate
+  return present([
+    { label: 'Blank code', value: blank.code, mono: true },
+    { label: 'Format', value: cylinderFormatTable[certificate.format].label },
+    { label: 'Wax batch', value: `${batch.code}, poured ${certificateDay(batch.pourDate)} — ${batch.waxFormula ? `${batch.waxFormula} wax: ` : ''}${batch.formula}` },
+    { label: 'Outside diameter', value: blank.diameterIn ? `${formatInches(blank.diameterIn)} in (${formatMillimetres(blank.diameterIn, 1)} mm)` : 'not recorded' },
+    { label: 'Surface', value: blank.surface === 1 ? 'the first surface shaved on this blank' : `surface ${blank.surface} (reshaved ${blank.surface - 1} time${blank.surface > 2 ? 's' : ''})` },
+    !!certificate.blankOverrideReason && { label: 'Blank chosen by the maker', value: `Not the wax or format the item is usually made of: ${certificate.blankOverrideReason}` },
+  ])
+}
+
+/** The cut: recorder, horn, stylus, day, the test of the cut and when it was ready. */
+export function certificateCutFacts(certificate: Certificate): CertificateFact[] {
+  const { recorder, testCut } = certificate
+  return present([
+    { label: 'Recorder', value: recorder?.name ?? '—' },
+    !!recorder?.horn && { label: 'Horn', value: recorder.horn },
+    !!recorder?.stylus && { label: 'Cutting stylus', value: recorder.stylus },
+    { label: 'Cut on', value: certificateDay(certificate.cutAt) },
+    !!testCut && { label: 'Test of the cut', value: `${formatDbfs(testCut.aWeightedDbfs)} A-weighted, ${testCut.clicksPerMinute.toFixed(1)} clicks a minute (${certificateVerdictWords[testCut.verdict]})` },
+    { label: 'Ready for dispatch', value: certificate.readyAt ? certificateDay(certificate.readyAt) : 'not yet' },
+  ])
+}
+
+/** The surface test's figures beside the shop's fail limits, one row a measure; none without a test. */
+export function certificateSurfaceRows(certificate: Certificate): { label: string, measured: string, limit: string }[] {
+  const test = certificate.surfaceTest
+  if (!test) return []
+  const limits = certificate.thresholds
+  return [
+    { label: 'Surface noise, A-weighted', measured: formatDbfs(test.aWeightedDbfs), limit: formatDbfs(limits.aWeightedDbfs.fail) },
+    { label: 'Once-per-turn noise', measured: `${test.rotaryDb.toFixed(1)} dB`, limit: `${limits.rotaryDb.fail.toFixed(1)} dB` },
+    { label: 'Clicks per minute', measured: test.clicksPerMinute.toFixed(1), limit: limits.clicksPerMinute.fail.toFixed(1) },
+  ]
+}

@@ -1,0 +1,27 @@
+import { cylinderFormatTable, cylinderFormats, cylinderSpeedsRpm, standardCylinderRpm } from '#shared/utils/cylinder'
+import type { FieldOption } from '~/utils/formFields'
+import { ticketDay } from '~/utils/ticketFormat'
+
+// The words and choices of the personal-message form, as data: its components draw them.
+
+/** Suggestions for the occasion; the customer may type any other. */
+export const customOccasions = ['Birthday', 'Wedding', 'Anniversary', 'Retirement', 'A letter to the future', 'Thank you', 'In memory']
+
+export const customFormatOptions: FieldOption[] = cylinderFormats.map(format => ({ value: format, label: cylinderFormatTable[format].label }))
+
+export const customSpeedOptions: FieldOption[] = cylinderSpeedsRpm.map(rpm => ({ value: String(rpm), label: `${rpm} rpm${rpm === standardCylinderRpm ? ' (standard)' : ''}` }))
+
+/** What each field says under it until the server has something to say about it. */
+export const customHints = {
+  occasion: 'A birthday, a wedding toast, a letter to the future…',
+  rpm: 'Slower turns play longer: choose the speed your machine plays at.',
+  wishedDate: 'The earliest date follows from the workshop\'s lead time.',
+  rush: 'Made ahead of the queue for an earlier date, at a charge.',
+  notes: 'How a name is said, the tone you hope for, a pause you want. Optional.',
+  script: 'Words are counted as they are said aloud: "1905" is three words, "50%" two. The meter shows how long it runs.',
+  scriptOfRecording: 'The length on the record is your recording\'s own.',
+} as const
+
+/** The earliest day a message can be sent, as the date field's hint. */
+export const customEarliestHint = (earliestDate?: string) =>
+  earliestDate ? `The earliest we can send it: ${ticketDay(earliestDate)}.` : customHints.wishedDate
