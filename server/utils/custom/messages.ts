@@ -10,7 +10,6 @@ import { quoteCart } from '../shop/cart'
 
 type Db = Database | Transaction
 type CartQuote = Awaited<ReturnType<typeof quoteCart>>
-export type CustomMessageRow = typeof customMessages.$inferSelect
 
 /** One message of a checkout, quoted again by the server: what the order item and its row are made of. */
 export interface PreparedMessage {
@@ -113,11 +112,11 @@ export async function messageDueDates(db: Db, itemIds: number[], paidAt: Date, s
 
 /**
  * One mail to the customer once a paid order's messages are in the workshop: what was ordered and the
- * wished-for date. Sent once per order however often payment is confirmed.
+ * wished-for date. Sent once per order however often payment is confirmed. Given the order row the
+ * payment just wrote (or read, locked), so it is not read again.
  */
-export async function queueMessagesReceivedMail(tx: Db, orderId: number) {
-  const [order] = await tx.select().from(orders).where(eq(orders.id, orderId))
-  if (!order) return
+export async function queueMessagesReceivedMail(tx: Db, order: Pick<OrderRow, 'id' | 'number' | 'email' | 'userId'>) {
+  const orderId = order.id
   const rows = await tx.select({ message: customMessages, dueDate: tickets.dueDate }).from(customMessages)
     .innerJoin(orderItems, eq(orderItems.id, customMessages.orderItemId))
     .leftJoin(tickets, eq(tickets.orderItemId, orderItems.id))

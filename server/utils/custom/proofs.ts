@@ -6,8 +6,6 @@ import { customMessages, files, orderItems, orders, proofs, tickets, users } fro
 import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
-export type Proof = typeof proofs.$inferSelect
-type OrderRow = typeof orders.$inferSelect
 
 const proofMimes = ['audio/wav', 'audio/mpeg']
 
@@ -86,7 +84,7 @@ export async function proofForViewer(event: H3Event, params: { number: string, p
 }
 
 /** The proof's recording as a stored-file answer (byte ranges, private caching). */
-export async function proofFile(proof: Proof) {
+export async function proofFile(proof: ProofRow) {
   const db = await useDB()
   const [file] = proof.fileId ? await db.select().from(files).where(eq(files.id, proof.fileId)) : []
   if (!file) throw notFoundError('No such proof.')
@@ -107,7 +105,7 @@ export async function answerWaitingProofForCustomer(tx: Db, ticketId: number, an
   if (waiting) await markAnswered(tx, waiting.id, answer, { note, via: 'maker', by: makerId })
 }
 
-const alreadyAnswered = (proof: Proof) => conflictError(`This proof has already been answered (${proof.answer === 'approved' ? 'approved' : proof.answer === 'recut' ? 're-cut asked for' : 'answered'}); reload your order to see where it stands.`, { answer: proof.answer })
+const alreadyAnswered = (proof: ProofRow) => conflictError(`This proof has already been answered (${proof.answer === 'approved' ? 'approved' : proof.answer === 'recut' ? 're-cut asked for' : 'answered'}); reload your order to see where it stands.`, { answer: proof.answer })
 
 /**
  * The customer answers a proof, once: approve (the ticket goes to approved and the order on as its
@@ -150,7 +148,7 @@ const NOTE_PART = 480
  * proof stays waiting (the customer may still approve it instead). The same proof and note open the
  * same page (idempotency key).
  */
-async function openPaidRecutPayment(order: OrderRow, proof: Proof, note: string, amountMinor: number) {
+async function openPaidRecutPayment(order: OrderRow, proof: ProofRow, note: string, amountMinor: number) {
   const back = orderLink(order.number, order.userId !== null)
   const noteKey = createHash('sha256').update(note).digest('hex').slice(0, 16)
   // An empty metadata value means "no such key" to the payment service: only the parts the note fills.

@@ -10,7 +10,7 @@ async function brokenItems(tx: Database | Transaction, claim: ClaimRow) {
   return claim.itemIds.length ? items.filter(item => claim.itemIds.includes(item.id)) : items
 }
 
-async function queueClaimAnswerMail(tx: Transaction, order: typeof orders.$inferSelect, claim: ClaimRow, text: string) {
+async function queueClaimAnswerMail(tx: Transaction, order: OrderRow, claim: ClaimRow, text: string) {
   await queueMail(tx, {
     to: order.email,
     subject: `Your breakage report for order ${order.number}`,

@@ -4,8 +4,6 @@ import { claims, files, orderEvents, orderItems, orders, shipments, users } from
 import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
-type OrderRow = typeof orders.$inferSelect
-export type ClaimRow = typeof claims.$inferSelect
 
 /** Who may see an order's claims as its customer: the owner, or a guest holding the signed link. */
 export function isOrderCustomer(user: { id: number } | null, order: Pick<OrderRow, 'number' | 'userId'>, token: string | undefined): boolean {
@@ -125,7 +123,7 @@ async function queueClaimOpenedMails(tx: Transaction, order: OrderRow, claim: Cl
       dedupeKey: `claim-opened:${claim.id}:${maker.id}`,
       content: {
         heading: `Order ${order.number}: a breakage claim (#${claim.id})`,
-        paragraphs: [`Reported as broken: ${broken.map(item => item.title).join(', ')}.`, `In the customer's words: ${claim.description}`, `${claim.photoFileIds.length} photo(s) attached.`],
+        paragraphs: [`Reported as broken: ${broken.map(item => item.title).join(', ')}.`, `In the customer's words: ${claim.description}`, `${countOf(claim.photoFileIds.length, 'photo')} attached.`],
         action: { label: 'Answer the claim', url: `${site}/workshop/claims` },
       },
     })
@@ -137,7 +135,7 @@ async function queueClaimOpenedMails(tx: Transaction, order: OrderRow, claim: Cl
     content: {
       heading: 'Sorry it arrived damaged',
       paragraphs: [
-        `We have your report (#${claim.id}) with ${claim.photoFileIds.length} photo(s) about: ${broken.map(item => item.title).join(', ')}.`,
+        `We have your report (#${claim.id}) with ${countOf(claim.photoFileIds.length, 'photo')} about: ${broken.map(item => item.title).join(', ')}.`,
         'The workshop will look at it and write to you with a replacement or a refund. Please keep the parcel and its packing until then.',
         'Handle broken wax with care: the edges can be sharp.',
       ],

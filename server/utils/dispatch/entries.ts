@@ -4,7 +4,7 @@ import type { EngineSettings } from '#shared/utils/engineSettings'
 import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
-type DispatchOrderRow = Pick<typeof orders.$inferSelect, 'id' | 'number' | 'status' | 'shippingAddress' | 'zone' | 'updatedAt'>
+type DispatchOrderRow = Pick<OrderRow, 'id' | 'number' | 'status' | 'shippingAddress' | 'zone' | 'updatedAt'>
 
 /** The order columns a dispatch entry is built from: never a price or a payment. */
 export const dispatchOrderColumns = {
@@ -30,8 +30,6 @@ export function orderParcels(cylinders: number, settings: EngineSettings) {
   return Array.from({ length: parcelsForCylinders(cylinders, settings) }, (_, index) => Math.min(perParcel, cylinders - index * perParcel))
     .map(count => parcelPacking(count, settings))
 }
-
-export type HeatCheckRow = typeof heatChecks.$inferSelect
 
 /** The newest heat check of each order, by order id. */
 export async function newestHeatChecks(db: Db, orderIds: number[]): Promise<Map<number, HeatCheckRow>> {

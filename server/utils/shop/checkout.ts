@@ -3,12 +3,11 @@ import { orderEvents, orderItems, orders, products } from '../../db/schema'
 import type { CheckoutInput } from '../../../shared/utils/shopSchemas'
 import type { Database } from '../platform/db'
 import { quoteCart } from './cart'
-import type { Order } from './orders'
 
 type CartQuote = Awaited<ReturnType<typeof quoteCart>>
 
 /** What one press of "Go to payment" came to: a new order, the order an earlier press made, or a changed cart. */
-export type CheckoutOutcome = { order: Order, quote: CartQuote } | { earlier: Order } | { changes: CartQuote['changes'], quote: CartQuote }
+export type CheckoutOutcome = { order: OrderRow, quote: CartQuote } | { earlier: OrderRow } | { changes: CartQuote['changes'], quote: CartQuote }
 
 class CheckoutSoldOut extends Error {}
 
@@ -97,7 +96,7 @@ export function cartChangedError(changes: CartQuote['changes'], quote: CartQuote
  * The order an earlier request with the same checkout key made: the customer gets its payment page
  * again, and no second order or hold is made. The key is only honoured for the same e-mail address.
  */
-export async function replayCheckout(order: Order, email: string) {
+export async function replayCheckout(order: OrderRow, email: string) {
   if (order.email !== email) throw fieldError('checkoutKey', 'this key belongs to another checkout; reload the page and try again')
   if (order.status !== 'awaiting_payment') {
     throw createError({ statusCode: 409, statusMessage: 'Already checked out', message: `This checkout already went through as order ${order.number} (${order.status.replace(/_/g, ' ')}).`, data: { orderNumber: order.number, status: order.status } })

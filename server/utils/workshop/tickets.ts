@@ -3,8 +3,7 @@ import { blanks, orderItems, orders, products, recorders, surfaceTests, testCuts
 import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
-export type Ticket = typeof tickets.$inferSelect
-type TicketStageValue = Ticket['stage']
+type TicketStageValue = TicketRow['stage']
 
 const ticketNotFound = () => notFoundError('No such ticket.')
 
@@ -63,8 +62,8 @@ export async function createTicketsForOrder(tx: Db, paidOrder: number | OrderRow
   })))
   const created = await tx.insert(tickets).values(rows).onConflictDoNothing({ target: [tickets.orderItemId, tickets.unit] }).returning({ id: tickets.id })
   for (const ticket of created) await logTicketEvent(tx, ticket.id, null, 'queued', `Opened for paid order ${order.number}.`, null)
-  if (messageDue.size > 0) await queueMessagesReceivedMail(tx, orderId)
-  await moveOrder(tx, order, ['paid'], 'in_production', {}, `${rows.length} cylinder(s) to cut: production ticket(s) opened.`)
+  if (messageDue.size > 0) await queueMessagesReceivedMail(tx, order)
+  await moveOrder(tx, order, ['paid'], 'in_production', {}, `${countOf(rows.length, 'cylinder')} to cut: ${countOf(rows.length, 'production ticket')} opened.`)
   return created.length
 }
 
@@ -101,7 +100,7 @@ export async function openTicketHoldingBlank(db: Db, blankId: number, exceptTick
  * The wax the ticket's cylinder is made of: the catalogue item's formula; a personal message (or an
  * item without one) takes the shop's first formula.
  */
-export async function ticketWantedFormula(db: Db, ticket: Pick<Ticket, 'orderItemId'>): Promise<string> {
+export async function ticketWantedFormula(db: Db, ticket: Pick<TicketRow, 'orderItemId'>): Promise<string> {
   const [row] = await db.select({ kind: orderItems.kind, formula: products.waxFormulaId }).from(orderItems)
     .leftJoin(products, eq(products.id, orderItems.productId)).where(eq(orderItems.id, ticket.orderItemId))
   const { defaultId } = await shopWaxFormulas(db)
@@ -176,7 +175,7 @@ export async function eligibleBlanksForTicket(db: Db, ticketId: number, code?: s
  * or wax than the order wants goes only with the maker's reason (`overrideReason`); a stale, incomplete
  * or failed test never.
  */
-async function blankRefusal(db: Db, ticket: Ticket, blank: BlankRow, overrideReason: string | undefined): Promise<string | null> {
+async function blankRefusal(db: Db, ticket: TicketRow, blank: BlankRow, overrideReason: string | undefined): Promise<string | null> {
   const wanted = await ticketWantedFormula(db, ticket)
   const { defaultId, label } = await shopWaxFormulas(db)
   const [batch] = await db.select({ waxFormulaId: waxBatches.waxFormulaId }).from(waxBatches).where(eq(waxBatches.id, blank.batchId))
@@ -205,7 +204,7 @@ async function blankRefusal(db: Db, ticket: Ticket, blank: BlankRow, overrideRea
 }
 
 /** Whether the blank differs from what the order wants (format or wax), so that the override reason is kept. */
-async function blankIsOverride(db: Db, ticket: Ticket, blank: BlankRow): Promise<boolean> {
+async function blankIsOverride(db: Db, ticket: TicketRow, blank: BlankRow): Promise<boolean> {
   if (blank.format !== ticket.format) return true
   const [batch] = await db.select({ waxFormulaId: waxBatches.waxFormulaId }).from(waxBatches).where(eq(waxBatches.id, blank.batchId))
   return (batch?.waxFormulaId ?? (await shopWaxFormulas(db)).defaultId) !== await ticketWantedFormula(db, ticket)
@@ -261,7 +260,7 @@ export async function assignBlankToTicket(db: Database, ticketId: number, blankC
   }
 }
 
-export async function ticketKindById(db: Db, ticket: Pick<Ticket, 'orderItemId'>): Promise<TicketKind> {
+export async function ticketKindById(db: Db, ticket: Pick<TicketRow, 'orderItemId'>): Promise<TicketKind> {
   const [item] = await db.select({ kind: orderItems.kind }).from(orderItems).where(eq(orderItems.id, ticket.orderItemId))
   return ticketKindOf(item?.kind ?? 'recorded')
 }
@@ -275,7 +274,7 @@ export async function lockTicketForMove(tx: Transaction, ticketId: number) {
 }
 
 /** Checks that the ticket's blank can take the cut now: reserved for it, its current surface tested and passed. */
-export async function blankReadyForCut(tx: Transaction, ticket: Ticket): Promise<BlankRow> {
+export async function blankReadyForCut(tx: Transaction, ticket: TicketRow): Promise<BlankRow> {
   const [blank] = ticket.blankId ? await tx.select().from(blanks).where(eq(blanks.id, ticket.blankId)) : []
   if (!blank) throw conflictError(`Ticket #${ticket.id} has no blank yet: assign a tested blank before recording the cut.`)
   if (blank.state === 'cut') throw conflictError(`Blank ${blank.code} carries the rejected cut: change the blank (assign a fresh tested one) before cutting again.`)
@@ -286,7 +285,7 @@ export async function blankReadyForCut(tx: Transaction, ticket: Ticket): Promise
 }
 
 /** Marks the cut: ticket → cut with recorder, date and test cut; blank reserved → cut. */
-export async function markTicketCut(tx: Transaction, ticket: Ticket, blank: BlankRow, cut: { recorderId: number, cutAt: Date, testCutId: number | null, recorderName: string, note?: string }, actorUserId: number) {
+export async function markTicketCut(tx: Transaction, ticket: TicketRow, blank: BlankRow, cut: { recorderId: number, cutAt: Date, testCutId: number | null, recorderName: string, note?: string }, actorUserId: number) {
   await tx.update(tickets).set({ stage: 'cut', recorderId: cut.recorderId, cutAt: cut.cutAt, cutTestId: cut.testCutId, updatedAt: new Date() }).where(eq(tickets.id, ticket.id))
   await moveBlank(tx, blank.id, { from: 'reserved', to: 'cut', reason: `Cut for ticket #${ticket.id} on ${cut.recorderName}.`, byUserId: actorUserId, details: { ticketId: ticket.id } })
   await logTicketEvent(tx, ticket.id, ticket.stage, 'cut', `Cut on ${blank.code} with ${cut.recorderName}${cut.testCutId ? ', with a test recording' : ''}.${cut.note ? ` ${cut.note}` : ''}`, actorUserId)
@@ -324,7 +323,7 @@ export async function changeTicketStage(db: Database, ticketId: number, change: 
  * (proof_sent → approved), or asks for a re-cut (proof_sent → blank_assigned, counted in `recuts`).
  * Each returns false when the ticket was not at the stage the move leaves.
  */
-export async function moveTicketForProof(tx: Db, ticket: Ticket, move: 'sent' | 'approved' | 'recut', note: string, actorUserId: number | null): Promise<boolean> {
+export async function moveTicketForProof(tx: Db, ticket: TicketRow, move: 'sent' | 'approved' | 'recut', note: string, actorUserId: number | null): Promise<boolean> {
   const from: TicketStageValue = move === 'sent' ? 'cut' : 'proof_sent'
   const to: TicketStageValue = move === 'sent' ? 'proof_sent' : move === 'approved' ? 'approved' : 'blank_assigned'
   const [moved] = await tx.update(tickets)

@@ -14,7 +14,7 @@ export default defineEventHandler(async (event) => {
   const pdf = await drawAddressLabel(slip)
   setResponseHeaders(event, {
     'content-type': 'application/pdf',
-    'content-disposition': `inline; filename="address-label-${slip.number}.pdf"`,
+    'content-disposition': inlineDisposition(`address-label-${slip.number}.pdf`),
   })
   return pdf
 })

@@ -19,7 +19,7 @@ export default defineEventHandler(async (event) => {
   const pdf = await drawPackingSlip(slip, paper)
   setResponseHeaders(event, {
     'content-type': 'application/pdf',
-    'content-disposition': `inline; filename="packing-slip-${slip.number}-${paper}.pdf"`,
+    'content-disposition': inlineDisposition(`packing-slip-${slip.number}-${paper}.pdf`),
   })
   return pdf
 })
