@@ -219,6 +219,13 @@ describe.skipIf(!pgBin)(pgBin ? 'several instances behind one address' : 'severa
     expect(part.status).toBe(206)
     expect(part.headers.get('content-range')).toBe(`bytes 4-15/${bytes.byteLength}`)
     expect(Buffer.from(await part.arrayBuffer())).toEqual(bytes.subarray(4, 16))
+    // Only the asked part is fetched from the bucket; a suffix and a range past the end behave as on disk.
+    const tail = await fetch(`${instances[1]!.base}/files/${id}`, { headers: { cookie: client.cookie, range: 'bytes=-5' } })
+    expect(tail.status).toBe(206)
+    expect(Buffer.from(await tail.arrayBuffer())).toEqual(bytes.subarray(bytes.byteLength - 5))
+    const beyond = await fetch(`${instances[1]!.base}/files/${id}`, { headers: { cookie: client.cookie, range: `bytes=${bytes.byteLength + 10}-` } })
+    expect(beyond.status).toBe(416)
+    expect(beyond.headers.get('content-range')).toBe(`bytes */${bytes.byteLength}`)
     // The object is in the bucket's folder, not on either instance's disk.
     expect(JSON.stringify(readdirSync(join(bucket.dir, bucket.bucket), { recursive: true }))).toContain(id)
   })

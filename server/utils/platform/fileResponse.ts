@@ -9,8 +9,6 @@ import type { StoredFileRow } from '#shared/types/rows'
  * own files (proofs, claim photos) after their own permission check.
  */
 export async function sendStoredFile(event: H3Event, file: StoredFileRow, options: { shared?: boolean } = {}) {
-  const data = await readStoredFile(file.id)
-  if (!data) throw notFoundError('No such file.')
   setResponseHeaders(event, {
     'Content-Type': file.mime,
     'Content-Disposition': inlineDisposition(file.originalName),
@@ -24,17 +22,19 @@ export async function sendStoredFile(event: H3Event, file: StoredFileRow, option
     setResponseStatus(event, 304)
     return null
   }
-  const range = parseByteRange(getRequestHeader(event, 'range'), data.byteLength)
-  if (range === 'unsatisfiable') {
-    setResponseHeader(event, 'Content-Range', `bytes */${data.byteLength}`)
+  // In a bucket only the asked range is fetched; from a folder the file is read and sliced.
+  const found = await readStoredFilePart(file.id, getRequestHeader(event, 'range'), file.bytes)
+  if (!found) throw notFoundError('No such file.')
+  if ('unsatisfiable' in found) {
+    setResponseHeader(event, 'Content-Range', `bytes */${found.unsatisfiable}`)
     throw createError({ statusCode: 416, statusMessage: 'Range Not Satisfiable', message: 'That part of the file does not exist.' })
   }
-  if (range) {
+  if ('part' in found) {
     setResponseStatus(event, 206)
-    setResponseHeader(event, 'Content-Range', `bytes ${range.start}-${range.end}/${data.byteLength}`)
-    setResponseHeader(event, 'Content-Length', range.end - range.start + 1)
-    return data.subarray(range.start, range.end + 1)
+    setResponseHeader(event, 'Content-Range', `bytes ${found.start}-${found.end}/${found.size}`)
+    setResponseHeader(event, 'Content-Length', found.part.byteLength)
+    return found.part
   }
-  setResponseHeader(event, 'Content-Length', data.byteLength)
-  return data
+  setResponseHeader(event, 'Content-Length', found.whole.byteLength)
+  return found.whole
 }

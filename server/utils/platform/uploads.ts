@@ -4,6 +4,7 @@ import { create as contentDisposition } from 'content-disposition'
 import { resolve } from 'node:path'
 import { inArray } from 'drizzle-orm'
 import type { H3Event } from 'h3'
+import { AwsClient } from 'aws4fetch'
 import { fileTypeFromBuffer } from 'file-type'
 import parseRange from 'range-parser'
 import sharp from 'sharp'
@@ -620,6 +621,49 @@ export async function readStoredFile(id: string): Promise<Buffer | null> {
   const storage = await uploadStorage()
   const raw = await storage.getItemRaw<Buffer>(id).catch(() => null)
   return raw ? Buffer.from(raw) : null
+}
+
+let bucketClient: AwsClient | undefined
+
+/**
+ * Bytes `start`–`end` (inclusive) of an object in the uploads bucket, asked of the bucket with a Range
+ * header so a seek in a long recording does not fetch the whole file; with the object's full size from the
+ * answer's Content-Range. Null when there is no such object.
+ */
+async function readBucketRange(id: string, start: number, end: number): Promise<{ data: Buffer, size: number } | null> {
+  const settings = s3UploadSettings()
+  bucketClient ??= new AwsClient({ service: 's3', region: settings.region, accessKeyId: settings.accessKeyId, secretAccessKey: settings.secretAccessKey })
+  const target = `${settings.endpoint.replace(/\/+$/, '')}/${settings.bucket}/${encodeURIComponent(id)}`
+  const answer = await bucketClient.fetch(target, { headers: { range: `bytes=${start}-${end}` } })
+  if (answer.status === 404) return null
+  const total = /\/(\d+)$/.exec(answer.headers.get('content-range') ?? '')?.[1]
+  if (answer.status !== 206 || !total) throw new Error(`the uploads bucket answered ${answer.status} to a range request for ${id}`)
+  return { data: Buffer.from(await answer.arrayBuffer()), size: Number(total) }
+}
+
+/**
+ * What to send for a stored file asked with an optional Range header: the whole file, the one asked range
+ * with the file's size, or 'unsatisfiable' (416). `recordedBytes` is the size the files table holds; in a
+ * bucket (NUXT_UPLOADS_DRIVER=s3) a range is fetched as a range, elsewhere the file is read and sliced.
+ * Null when the file is not in storage.
+ */
+export async function readStoredFilePart(id: string, rangeHeader: string | undefined, recordedBytes: number): Promise<
+  { whole: Buffer } | { part: Buffer, start: number, end: number, size: number } | { unsatisfiable: number } | null
+> {
+  if (rangeHeader && uploadsDriver() === 's3') {
+    const range = parseByteRange(rangeHeader, recordedBytes)
+    if (range === 'unsatisfiable') return { unsatisfiable: recordedBytes }
+    if (range) {
+      const found = await readBucketRange(id, range.start, range.end)
+      return found && { part: found.data, start: range.start, end: range.start + found.data.byteLength - 1, size: found.size }
+    }
+  }
+  const data = await readStoredFile(id)
+  if (!data) return null
+  const range = parseByteRange(rangeHeader, data.byteLength)
+  if (range === 'unsatisfiable') return { unsatisfiable: data.byteLength }
+  if (!range) return { whole: data }
+  return { part: data.subarray(range.start, range.end + 1), start: range.start, end: range.end, size: data.byteLength }
 }
 
 /**
