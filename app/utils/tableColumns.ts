@@ -15,4 +15,6 @@ export interface TableColumn {
   cellClass?: string
   /** Classes of this column's heading and cells both (e.g. a shaded column). */
   tint?: string
+  /** Left out of a stacked row at phone width (`<UiDataTable stack>`): the row's own page shows it. */
+  stackHidden?: boolean
 }
