@@ -152,6 +152,9 @@ export default defineNuxtConfig({
     // No client-side route rules are used (ours only set response headers), so the pages need not fetch the
     // build manifest (/_nuxt/builds/meta) nor carry the code that reads it.
     appManifest: false,
+    // A link fetches its page's code when it is pointed at or focused, not whenever it scrolls into view:
+    // a catalogue page shows some forty links, whose pages would otherwise load while the phone is still busy.
+    defaults: { nuxtLink: { prefetchOn: { visibility: false, interaction: true } } },
   },
   nitro: {
     ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
@@ -180,6 +183,9 @@ export default defineNuxtConfig({
     strict: true,
   },
   telemetry: false,
+  // Who is signed in comes from our own /api/auth/me (app/plugins/current-user.ts); the module's session
+  // fetch on every render and its client plugin are not used.
+  auth: { loadStrategy: 'none' },
   eslint: {
     config: { stylistic: true },
   },

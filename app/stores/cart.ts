@@ -39,8 +39,8 @@ const isLine = (line: CartLine) => typeof line?.slug === 'string' && Number.isIn
 const isMessage = (message: CartMessage) => typeof message?.key === 'string' && typeof message.script === 'string' && Array.isArray(message.priceParts)
 
 /**
- * The cart lives in the browser (kept across reloads by pinia-plugin-persistedstate, registered in
- * plugins/cart.client.ts); the server prices it at checkout. Cylinders and personal messages sit side by side.
+ * The cart lives in the browser (kept across reloads in localStorage by plugins/cart.client.ts); the server
+ * prices it at checkout. Cylinders and personal messages sit side by side.
  */
 export const useCartStore = defineStore('cart', () => {
   const lines = ref<CartLine[]>([])
@@ -98,6 +98,4 @@ export const useCartStore = defineStore('cart', () => {
   }
 
   return { lines, messages, count, empty, tidy, add, setQty, remove, addMessage, removeMessage, acceptQuote, clear }
-}, {
-  persist: { key: 'groovewright-cart-v2', pick: ['lines', 'messages'], afterHydrate: context => context.store.tidy() },
 })
