@@ -19,3 +19,11 @@ export function homeFor(user: SessionUser | null): string {
   if (user.role === 'shipper') return '/dispatch'
   return '/account'
 }
+
+/**
+ * Whether the cart and the customer's ways in are shown: to visitors and collectors. The workshop's maker and
+ * shipper buy nothing here, so their header, home page and cylinder pages carry no cart and no sign-up.
+ */
+export function shopsHere(user: SessionUser | null | undefined): boolean {
+  return !user || user.role === 'collector'
+}
