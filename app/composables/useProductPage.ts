@@ -16,6 +16,8 @@ export async function useProductPage() {
   useHead(() => ({
     title: product.value?.title ?? 'Cylinder',
     meta: product.value ? [{ name: 'description', content: product.value.description.slice(0, 160) }] : [],
+    // The first photo is the page's largest picture: asked for before the scripts, not after them.
+    link: product.value?.photoUrls[0] ? [{ rel: 'preload', as: 'image', href: product.value.photoUrls[0], fetchpriority: 'high', tagPriority: 'high' }] : [],
     script: product.value
       ? [{
           type: 'application/ld+json',
