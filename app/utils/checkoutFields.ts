@@ -1,29 +1,23 @@
-import type { FieldOption } from '~/utils/formFields'
+import type { FieldOption, FieldSpec } from '~/utils/formFields'
 
-/** The checkout form's fields, in the order they are shown: the first four one a line, the rest two a line. */
-export interface CheckoutField {
-  name: 'email' | 'name' | 'line1' | 'line2' | 'postalCode' | 'city' | 'region' | 'country'
-  label: string
-  autocomplete: string
-  type?: string
-  required?: boolean
-  /** A choice from a list instead of typed text (the country). */
-  options?: () => FieldOption[]
+type CheckoutFieldName = 'email' | 'name' | 'line1' | 'line2' | 'postalCode' | 'city' | 'region' | 'country'
+
+/**
+ * The checkout form's fields, in the order they are shown (`<UiFieldGrid>`): the first four across the
+ * whole row, the rest two a row from tablet width. The country is a choice of every country by name.
+ */
+export function checkoutFields(): (FieldSpec & { key: CheckoutFieldName })[] {
+  return [
+    { key: 'email', label: 'E-mail', kind: 'email', autocomplete: 'email', required: true, wide: true },
+    { key: 'name', label: 'Name', autocomplete: 'name', required: true, wide: true },
+    { key: 'line1', label: 'Address', autocomplete: 'address-line1', required: true, wide: true },
+    { key: 'line2', label: 'Address, second line', autocomplete: 'address-line2', wide: true },
+    { key: 'postalCode', label: 'Postal code', autocomplete: 'postal-code', required: true },
+    { key: 'city', label: 'Town or city', autocomplete: 'address-level2', required: true },
+    { key: 'region', label: 'State or region', autocomplete: 'address-level1' },
+    { key: 'country', label: 'Country', kind: 'select', autocomplete: 'country', required: true, options: countryOptions() },
+  ]
 }
-
-export const checkoutFieldsWide: CheckoutField[] = [
-  { name: 'email', label: 'E-mail', type: 'email', autocomplete: 'email', required: true },
-  { name: 'name', label: 'Name', autocomplete: 'name', required: true },
-  { name: 'line1', label: 'Address', autocomplete: 'address-line1', required: true },
-  { name: 'line2', label: 'Address, second line', autocomplete: 'address-line2' },
-]
-
-export const checkoutFieldsPaired: CheckoutField[] = [
-  { name: 'postalCode', label: 'Postal code', autocomplete: 'postal-code', required: true },
-  { name: 'city', label: 'Town or city', autocomplete: 'address-level2', required: true },
-  { name: 'region', label: 'State or region', autocomplete: 'address-level1' },
-  { name: 'country', label: 'Country', autocomplete: 'country', required: true, options: countryOptions },
-]
 
 let countries: FieldOption[] | undefined
 /** Every country by its English name, valued by its ISO 3166-1 code; the shop's zone and tax follow from it. */
@@ -35,4 +29,4 @@ export function countryOptions(): FieldOption[] {
   return countries
 }
 
-export type CheckoutForm = Record<CheckoutField['name'], string>
+export type CheckoutForm = Record<CheckoutFieldName, string>
