@@ -1,4 +1,5 @@
 import { cylinderFormatTable, cylinderFormats, cylinderSpeedsRpm, standardCylinderRpm } from '#shared/utils/cylinder'
+import type { CustomForm } from '~/composables/useCustomMessage'
 import type { FieldOption } from '~/utils/formFields'
 import { ticketDay } from '~/utils/ticketFormat'
 
@@ -6,6 +7,12 @@ import { ticketDay } from '~/utils/ticketFormat'
 
 /** Suggestions for the occasion; the customer may type any other. */
 export const customOccasions = ['Birthday', 'Wedding', 'Anniversary', 'Retirement', 'A letter to the future', 'Thank you', 'In memory']
+
+/** Who speaks on the record. */
+export const customVoiceOptions: { value: CustomForm['voice'], label: string }[] = [
+  { value: 'maker', label: 'The maker reads your script into the horn' },
+  { value: 'upload', label: 'Your own recording, played into the horn by the maker' },
+]
 
 export const customFormatOptions: FieldOption[] = cylinderFormats.map(format => ({ value: format, label: cylinderFormatTable[format].label }))
 
