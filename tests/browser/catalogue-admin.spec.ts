@@ -130,7 +130,7 @@ test('a new product: the form names what is missing, then creates it', async ({ 
   await expectNothingSerious(page, 'new, with errors')
 
   await page.getByLabel('Title').fill('Chandler\'s Hornpipe')
-  await expect(page.getByLabel('Address in the shop (slug)')).toHaveValue('chandler-s-hornpipe')
+  await expect(page.getByLabel('Address in the shop (slug)')).toHaveValue('chandlers-hornpipe')
   await page.getByLabel('Material').fill('Stearic acid wax (hard, black)')
   await page.getByLabel('Performer').fill('The Fennel Street Players')
   await page.getByLabel('Running time (m:ss)').fill('2:40')
