@@ -8,30 +8,40 @@ export default defineNitroPlugin((nitroApp) => {
   let stopped = false
 
   const loop = async () => {
+    const startedAt = performance.now()
     try {
       // With several app instances on one PostgreSQL server, one delivers at a time (the others skip the pass).
-      await withInstanceLock('mail', async () => {
-        await requeueInterruptedMail()
-        await deliverDueMail()
+      const done = await withInstanceLock('mail', async () => {
+        const requeued = await requeueInterruptedMail()
+        return { requeued, ...await deliverDueMail() }
       }, { wait: false })
+      if (!done) logJob('mail', startedAt, { skipped: 'another instance is delivering' }, { idle: true })
+      else logJob('mail', startedAt, done, { idle: done.sent + done.failed + done.requeued === 0 })
     }
     catch (error) {
-      console.error('[mail] outbox pass failed:', error instanceof Error ? error.message : error)
+      logJob('mail', startedAt, { error: error instanceof Error ? error.message : String(error) })
     }
     if (!stopped) timer = setTimeout(loop, Number(config.mailPollMs))
   }
 
   let sweepTimer: ReturnType<typeof setInterval> | undefined
+  // Each sweep logs one line a run: what it released or sent, or why it failed.
+  const sweepJob = async (job: string, run: () => Promise<number>, counted: string) => {
+    const startedAt = performance.now()
+    try {
+      logJob(job, startedAt, { [counted]: await run() })
+    }
+    catch (error) {
+      logJob(job, startedAt, { error: error instanceof Error ? error.message : String(error) })
+    }
+  }
   const sweep = () => Promise.all([
-    sweepExpiredReservations().catch((error) => {
-      console.error('[checkout] reservation sweep failed:', error instanceof Error ? error.message : error)
-    }),
+    sweepJob('reservation-sweep', () => sweepExpiredReservations(), 'released'),
     // One reminder for each proof left waiting too long (conditional, so two servers send it once).
-    sendProofReminders().catch((error) => {
-      console.error('[messages] proof reminder sweep failed:', error instanceof Error ? error.message : error)
-    }),
+    sweepJob('proof-reminders', () => sendProofReminders(), 'sent'),
   ])
 
+  const startedAt = performance.now()
   const starting = (async () => {
     const db = await useDB()
     // NUXT_SEED_DEMO (runtime config), or SEED_DEMO when that is not set.
@@ -44,8 +54,8 @@ export default defineNitroPlugin((nitroApp) => {
     if (!stopped) sweepTimer = setInterval(sweep, 60_000)
   })()
   trackStartup(starting)
-  starting.catch((error) => {
-    console.error('[db] start-up failed:', error)
+  starting.then(() => logJob('start-up', startedAt, { database: process.env.DATABASE_URL ? 'server' : 'embedded' }), (error) => {
+    logJob('start-up', startedAt, { error: error instanceof Error ? error.message : String(error) })
   })
 
   nitroApp.hooks.hook('close', async () => {

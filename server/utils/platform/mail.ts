@@ -76,13 +76,14 @@ export function retryDelayMs(attempts: number, maxMs: number): number {
  * Deliver what is due. Each row is claimed (pending → sending) by a conditional update before it is
  * sent, so two loops never send the same message; a failure puts it back with a later attempt time.
  */
-export async function deliverDueMail(limit = 20): Promise<number> {
+export async function deliverDueMail(limit = 20): Promise<{ sent: number, failed: number }> {
   const db = await useDB()
   const config = useRuntimeConfig()
   const due = await db.select({ id: mailOutbox.id }).from(mailOutbox)
     .where(and(eq(mailOutbox.status, 'pending'), lte(mailOutbox.nextAttemptAt, new Date())))
     .orderBy(asc(mailOutbox.id)).limit(limit)
   let sent = 0
+  let failed = 0
   for (const { id } of due) {
     // The claim is a lease: nextAttemptAt becomes the time after which the claim counts as abandoned.
     const [claimed] = await db.update(mailOutbox).set({ status: 'sending', attempts: sql`${mailOutbox.attempts} + 1`, nextAttemptAt: new Date(Date.now() + sendLeaseMs) })
@@ -107,17 +108,19 @@ export async function deliverDueMail(limit = 20): Promise<number> {
         nextAttemptAt: new Date(Date.now() + wait),
         lastError: error instanceof Error ? error.message.slice(0, 500) : String(error).slice(0, 500),
       }).where(eq(mailOutbox.id, id))
+      failed++
     }
   }
-  return sent
+  return { sent, failed }
 }
 
 /**
  * A message left `sending` by a crash goes back to the queue once its lease has run out — not before,
  * so another instance that is sending it right now is not doubled.
  */
-export async function requeueInterruptedMail() {
+export async function requeueInterruptedMail(): Promise<number> {
   const db = await useDB()
-  await db.update(mailOutbox).set({ status: 'pending' })
-    .where(and(eq(mailOutbox.status, 'sending'), lte(mailOutbox.nextAttemptAt, new Date())))
+  const requeued = await db.update(mailOutbox).set({ status: 'pending' })
+    .where(and(eq(mailOutbox.status, 'sending'), lte(mailOutbox.nextAttemptAt, new Date()))).returning({ id: mailOutbox.id })
+  return requeued.length
 }
