@@ -44,6 +44,10 @@ const inputTypes: Partial<Record<FieldKind, string>> = { date: 'date', email: 'e
 export const fieldInputMode = (kind: FieldKind = 'text') => inputModes[kind]
 export const fieldInputType = (kind: FieldKind = 'text') => inputTypes[kind] ?? 'text'
 
+/** What a field hands its `<UiFieldFrame>`: the label, and the hint or the server's message below it. */
+export const frameOf = (field: { label: string, hint?: string, error?: string, required?: boolean }) =>
+  ({ label: field.label, hint: field.hint, error: field.error, required: field.required })
+
 /** A typed value for a request: trimmed, and left out when empty so the server's default applies. */
 export const typedOrUndefined = (value: string) => (value.trim() === '' ? undefined : value.trim())
 
