@@ -6,7 +6,7 @@ import { url } from '@nuxt/test-utils/e2e'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { encodeWav, makeSurfaceWav, makeToneSignal } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
-import { Client, signedIn, useTestServer, waitFor } from './harness'
+import { askPaymentFake, Client, postMultipart, signedIn, useTestServer, waitFor, workshopBench } from './harness'
 
 const uploadsDir = mkdtempSync(join(tmpdir(), 'gw-custom-uploads-'))
 const env = await useTestServer({ NUXT_UPLOADS_DIR: uploadsDir })
@@ -28,43 +28,20 @@ const words = (count: number) => Array.from({ length: count }, () => 'word').joi
 
 beforeAll(async () => {
   expect((await new Client().get('/api/health')).status).toBe(200)
-  maker = await signedIn(account('maker').email, account('maker').password)
-  // These tests use short synthetic takes; the rule that a take covers the surface (coveragePercent) is tested in workshop-truth.test.ts.
-  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
+  ;({ maker, batchId, recorderId } = await workshopBench({ batchCode: 'CM-26-01', formula: 'stearic acid 75 / paraffin 15 / carnauba 10', recorderName: 'Message Lathe', horn: 'aluminium, 24 in' }))
   collector = await signedIn(account('collector').email, account('collector').password)
   shipper = await signedIn(account('shipper').email, account('shipper').password)
   otherCollector = new Client()
   const registered = await otherCollector.post('/api/auth/register', { email: 'wren.halloway@collectors.test', name: 'Wren Halloway', password: 'a-long-enough-password-26' })
   expect(registered.status, JSON.stringify(registered.body)).toBeLessThan(300)
-  const batch = await maker.post('/api/workshop/batches', { code: 'CM-26-01', formula: 'stearic acid 75 / paraffin 15 / carnauba 10', pourDate: '2026-04-02', volumetricExpansionPerK: 0.00075, softeningPointC: 62 })
-  expect(batch.status, JSON.stringify(batch.body)).toBe(201)
-  batchId = batch.body.id
-  const recorder = await maker.post('/api/workshop/recorders', { name: 'Message Lathe', stylus: 'sapphire', horn: 'aluminium, 24 in' })
-  expect(recorder.status, JSON.stringify(recorder.body)).toBe(201)
-  recorderId = recorder.body.id
 })
 
 // ——— helpers ———
 
-async function fake(path: string, body?: unknown) {
-  const response = await fetch(`${payments.url}${path}`, { method: body === undefined ? 'GET' : 'POST', headers: { 'content-type': 'application/json' }, body: body === undefined ? undefined : JSON.stringify(body) })
-  return await response.json() as any
-}
+const fake = (path: string, body?: unknown) => askPaymentFake(payments, path, body)
 
-async function upload(client: Client, path: string, file: { name: string, bytes: Uint8Array, type?: string } | null, fields: Record<string, string> = {}) {
-  const form = new FormData()
-  if (file) form.append('file', new Blob([file.bytes], { type: file.type ?? 'audio/wav' }), file.name)
-  for (const [name, value] of Object.entries(fields)) form.append(name, value)
-  const target = url(path)
-  const headers: Record<string, string> = { origin: new URL(target).origin, accept: 'application/json', cookie: [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; ') }
-  const response = await fetch(target, { method: 'POST', body: form, headers })
-  const text = await response.text()
-  let body: any = text
-  try {
-    body = JSON.parse(text)
-  }
-  catch { /* not JSON */ }
-  return { status: response.status, body }
+function upload(client: Client, path: string, file: { name: string, bytes: Uint8Array, type?: string } | null, fields: Record<string, string> = {}) {
+  return postMultipart(client, path, file ? [{ field: 'file', name: file.name, bytes: file.bytes, type: file.type ?? 'audio/wav' }] : [], fields)
 }
 
 async function fetchAs(client: Client, path: string, headers: Record<string, string> = {}) {

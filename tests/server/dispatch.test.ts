@@ -9,7 +9,7 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import { makeSurfaceWav } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { addCalendarDays, nextShippingDay } from '../../shared/utils/heat'
-import { Client, signedIn, useTestServer, waitFor } from './harness'
+import { askPaymentFake, Client, postMultipart, signedIn, useTestServer, waitFor, workshopBench } from './harness'
 
 const uploadsDir = mkdtempSync(join(tmpdir(), 'gw-dispatch-uploads-'))
 const env = await useTestServer({ NUXT_UPLOADS_DIR: uploadsDir })
@@ -32,44 +32,21 @@ const fullChecklist = ['tubes', 'cushioning', 'double_box', 'slip', 'marks']
 const address = { name: 'Orla Fenwright', line1: '2 Cask Row', city: 'Lowmere', postalCode: 'LM5 2CR', region: 'OR', country: 'US' }
 
 beforeAll(async () => {
-  maker = await signedIn(account('maker').email, account('maker').password)
-  // These tests use short synthetic takes; the rule that a take covers the surface (coveragePercent) is tested in workshop-truth.test.ts.
-  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
+  ;({ maker, batchId, recorderId } = await workshopBench({ batchCode: 'DS-26-01', formula: 'stearic acid 75 / paraffin 25', recorderName: 'Dispatch Lathe', horn: 'brass, 24 in' }))
   shipper = await signedIn(account('shipper').email, account('shipper').password)
   customer = await signedIn(account('collector').email, account('collector').password)
   stranger = new Client()
   const registered = await stranger.post('/api/auth/register', { name: 'Pell Ashgrove', email: `pell-${Date.now()}@collectors.test`, password: 'a-long-and-unusual-phrase' })
   expect(registered.status, JSON.stringify(registered.body)).toBeLessThan(300)
-  const batch = await maker.post('/api/workshop/batches', { code: 'DS-26-01', formula: 'stearic acid 75 / paraffin 25', pourDate: '2026-04-02', volumetricExpansionPerK: 0.00075, softeningPointC: 62 })
-  expect(batch.status, JSON.stringify(batch.body)).toBe(201)
-  batchId = batch.body.id
-  const recorder = await maker.post('/api/workshop/recorders', { name: 'Dispatch Lathe', stylus: 'sapphire', horn: 'brass, 24 in' })
-  expect(recorder.status, JSON.stringify(recorder.body)).toBe(201)
-  recorderId = recorder.body.id
 })
 
 // ——— helpers ———
 
-async function fake(path: string, body?: unknown) {
-  const response = await fetch(`${payments.url}${path}`, { method: body === undefined ? 'GET' : 'POST', headers: { 'content-type': 'application/json' }, body: body === undefined ? undefined : JSON.stringify(body) })
-  return await response.json() as any
-}
+const fake = (path: string, body?: unknown) => askPaymentFake(payments, path, body)
 
 /** A multipart POST as the browser sends it (cookie and this site's Origin). */
-async function multipart(client: Client, path: string, files: { field: string, name: string, bytes: Uint8Array, type?: string }[], fields: Record<string, string> = {}) {
-  const form = new FormData()
-  for (const file of files) form.append(file.field, new Blob([file.bytes], { type: file.type ?? 'application/octet-stream' }), file.name)
-  for (const [name, value] of Object.entries(fields)) form.append(name, value)
-  const target = url(path)
-  const cookie = [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
-  const response = await fetch(target, { method: 'POST', body: form, headers: { origin: new URL(target).origin, accept: 'application/json', ...(cookie ? { cookie } : {}) } })
-  const text = await response.text()
-  let body: any = text
-  try {
-    body = JSON.parse(text)
-  }
-  catch { /* not JSON */ }
-  return { status: response.status, body }
+function multipart(client: Client, path: string, files: { field: string, name: string, bytes: Uint8Array, type?: string }[], fields: Record<string, string> = {}) {
+  return postMultipart(client, path, files.map(file => ({ ...file, type: file.type ?? 'application/octet-stream' })), fields)
 }
 
 async function testedBlank(): Promise<string> {

@@ -4,10 +4,11 @@ import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import pg from 'pg'
-import { beforeAll } from 'vitest'
+import { beforeAll, expect } from 'vitest'
 import { setup, url } from '@nuxt/test-utils/e2e'
 import { startMailFake } from '../../fakes/mail/server'
 import { startStripeFake } from '../../fakes/stripe/server'
+import { demoAccounts } from '../../shared/utils/demoAccounts'
 
 export const rootDir = fileURLToPath(new URL('../..', import.meta.url))
 
@@ -50,6 +51,8 @@ export async function useTestServer(env: Record<string, string> = {}, options: {
       NUXT_SEED_DEMO: 'true',
       NUXT_STRIPE_API_PORT: String(payments.port),
       NUXT_STRIPE_WEBHOOK_SECRET: webhookSecret,
+      // The built server runs with NODE_ENV=production here: only warnings and errors, unless a test or LOG_LEVEL asks.
+      LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
       ...(database ? { DATABASE_URL: database } : {}),
       ...env,
     },
@@ -166,4 +169,43 @@ export async function waitFor<T>(probe: () => Promise<T | undefined | null | fal
     await new Promise(resolve => setTimeout(resolve, 100))
   }
   throw new Error(`timed out waiting for ${what}`)
+}
+
+/** A GET (no body) or POST (JSON) to the payment stand-in's own test controls, answered as JSON. */
+export async function askPaymentFake(payments: { url: string }, path: string, body?: unknown) {
+  const response = await fetch(`${payments.url}${path}`, { method: body === undefined ? 'GET' : 'POST', headers: { 'content-type': 'application/json' }, body: body === undefined ? undefined : JSON.stringify(body) })
+  return await response.json() as any
+}
+
+/** A multipart POST as the browser sends it (cookie and this site's Origin); the answer's body parsed if JSON. */
+export async function postMultipart(client: Client, path: string, files: { field: string, name: string, bytes: Uint8Array, type: string }[], fields: Record<string, string> = {}): Promise<{ status: number, body: any }> {
+  const form = new FormData()
+  for (const file of files) form.append(file.field, new Blob([file.bytes], { type: file.type }), file.name)
+  for (const [name, value] of Object.entries(fields)) form.append(name, value)
+  const target = url(path)
+  const cookie = [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+  const response = await fetch(target, { method: 'POST', body: form, headers: { origin: new URL(target).origin, accept: 'application/json', ...(cookie ? { cookie } : {}) } })
+  const text = await response.text()
+  let body: any = text
+  try {
+    body = JSON.parse(text)
+  }
+  catch { /* not JSON */ }
+  return { status: response.status, body }
+}
+
+/**
+ * The workshop set-up the production tests share: the demo maker signed in, the surface-test coverage
+ * rule relaxed to 1 % (these tests use short synthetic takes; the rule itself is tested in
+ * workshop-truth.test.ts), one wax batch and one recorder of the given names.
+ */
+export async function workshopBench(names: { batchCode: string, formula: string, recorderName: string, horn: string }) {
+  const makerAccount = demoAccounts.find(a => a.role === 'maker')!
+  const maker = await signedIn(makerAccount.email, makerAccount.password)
+  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
+  const batch = await maker.post('/api/workshop/batches', { code: names.batchCode, formula: names.formula, pourDate: '2026-04-02', volumetricExpansionPerK: 0.00075, softeningPointC: 62 })
+  expect(batch.status, JSON.stringify(batch.body)).toBe(201)
+  const recorder = await maker.post('/api/workshop/recorders', { name: names.recorderName, stylus: 'sapphire', horn: names.horn })
+  expect(recorder.status, JSON.stringify(recorder.body)).toBe(201)
+  return { maker, batchId: batch.body.id as number, recorderId: recorder.body.id as number }
 }

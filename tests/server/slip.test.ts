@@ -38,7 +38,7 @@ async function fetchBytes(client: Client | null, path: string) {
     if (error?.cause?.code === 'UND_ERR_SOCKET') return send()
     throw error
   })
-  return { status: response.status, type: response.headers.get('content-type') ?? '', bytes: Buffer.from(await response.arrayBuffer()) }
+  return { status: response.status, type: response.headers.get('content-type') ?? '', disposition: response.headers.get('content-disposition') ?? '', bytes: Buffer.from(await response.arrayBuffer()) }
 }
 
 function run(command: string, args: string[]): string {
@@ -109,6 +109,7 @@ describe('packing slip', () => {
       const answer = await fetchBytes(shipper, `/api/dispatch/${orderNumber}/slip.pdf?paper=${paper}`)
       expect(answer.status).toBe(200)
       expect(answer.type).toBe('application/pdf')
+      expect(answer.disposition).toBe(`inline; filename=packing-slip-${orderNumber}-${paper}.pdf`)
       expect(answer.bytes.subarray(0, 5).toString()).toBe('%PDF-')
       const pdf = readPdf(`slip-${paper}`, answer.bytes)
 

@@ -1,11 +1,10 @@
 import { mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import { url } from '@nuxt/test-utils/e2e'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { analyseSurfaceWav, makeSurfaceWav, surfaceThresholdsSchema } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
-import { Client, signedIn, useTestServer, waitFor } from './harness'
+import { askPaymentFake, Client, postMultipart, signedIn, useTestServer, waitFor, workshopBench } from './harness'
 
 const uploadsDir = mkdtempSync(join(tmpdir(), 'gw-ticket-uploads-'))
 const env = await useTestServer({ NUXT_UPLOADS_DIR: uploadsDir })
@@ -22,40 +21,17 @@ const address = { name: 'Tamsin Orrell', line1: '4 Wick Lane', city: 'Lowmere', 
 
 beforeAll(async () => {
   expect((await new Client().get('/api/health')).status).toBe(200)
-  maker = await signedIn(account('maker').email, account('maker').password)
-  // These tests use short synthetic takes; the rule that a take covers the surface (coveragePercent) is tested in workshop-truth.test.ts.
-  expect((await maker.put('/api/workshop/settings/surface', { coveragePercent: 1 })).status).toBe(200)
+  ;({ maker, batchId, recorderId } = await workshopBench({ batchCode: 'TK-26-01', formula: 'stearic acid 75 / paraffin 15 / carnauba 10', recorderName: 'Test Lathe', horn: 'brass, 24 in' }))
   collector = await signedIn(account('collector').email, account('collector').password)
-  const batch = await maker.post('/api/workshop/batches', { code: 'TK-26-01', formula: 'stearic acid 75 / paraffin 15 / carnauba 10', pourDate: '2026-04-02', volumetricExpansionPerK: 0.00075, softeningPointC: 62 })
-  expect(batch.status, JSON.stringify(batch.body)).toBe(201)
-  batchId = batch.body.id
-  const recorder = await maker.post('/api/workshop/recorders', { name: 'Test Lathe', stylus: 'sapphire', horn: 'brass, 24 in' })
-  expect(recorder.status, JSON.stringify(recorder.body)).toBe(201)
-  recorderId = recorder.body.id
 })
 
 // ——— helpers ———
 
-async function fake(path: string, body?: unknown) {
-  const response = await fetch(`${payments.url}${path}`, { method: body === undefined ? 'GET' : 'POST', headers: { 'content-type': 'application/json' }, body: body === undefined ? undefined : JSON.stringify(body) })
-  return await response.json() as any
-}
+const fake = (path: string, body?: unknown) => askPaymentFake(payments, path, body)
 
 /** A multipart upload as the browser sends it (cookie and this site's Origin). */
-async function upload(client: Client, path: string, file: { name: string, bytes: Uint8Array } | null, fields: Record<string, string> = {}) {
-  const form = new FormData()
-  if (file) form.append('file', new Blob([file.bytes], { type: 'audio/wav' }), file.name)
-  for (const [name, value] of Object.entries(fields)) form.append(name, value)
-  const target = url(path)
-  const headers: Record<string, string> = { origin: new URL(target).origin, accept: 'application/json', cookie: [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; ') }
-  const response = await fetch(target, { method: 'POST', body: form, headers })
-  const text = await response.text()
-  let body: any = text
-  try {
-    body = JSON.parse(text)
-  }
-  catch { /* not JSON */ }
-  return { status: response.status, body }
+function upload(client: Client, path: string, file: { name: string, bytes: Uint8Array } | null, fields: Record<string, string> = {}) {
+  return postMultipart(client, path, file ? [{ field: 'file', name: file.name, bytes: file.bytes, type: 'audio/wav' }] : [], fields)
 }
 
 // Synthetic play-throughs with known answers (server/audio/synth.ts): 6 s at 22.05 kHz, over the
@@ -108,6 +84,16 @@ async function ticketsOf(orderNumber: string) {
   const board = await maker.get(`/api/workshop/tickets?q=${orderNumber}`)
   expect(board.status).toBe(200)
   return (board.body.tickets as any[]).sort((a, b) => a.unit - b.unit)
+}
+
+/** A paid order of one made-to-order cylinder as the demo collector, and its ticket once it is open. */
+async function orderWithOneTicket(product: { slug: string }) {
+  const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
+  const [ticket] = await waitFor(async () => {
+    const found = await ticketsOf(placed.orderNumber)
+    return found.length === 1 ? found : null
+  }, 10_000, 'the ticket')
+  return { placed, ticket }
 }
 
 async function orderStatus(orderNumber: string) {
@@ -241,11 +227,7 @@ describe('assigning a blank', () => {
 describe('the ticket life cycle', () => {
   it('no cut before a blank is assigned, no proof for a recorded cylinder, no done before the order ships; every change is logged', async () => {
     const product = await madeToOrderProduct('four_minute')
-    const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
-    const [ticket] = await waitFor(async () => {
-      const found = await ticketsOf(placed.orderNumber)
-      return found.length === 1 ? found : null
-    }, 10_000, 'the ticket')
+    const { placed, ticket } = await orderWithOneTicket(product)
     const id = ticket.id as number
 
     const early = await cut(id)
@@ -286,11 +268,7 @@ describe('the ticket life cycle', () => {
 
   it('a recut needs a reason, sends the ticket back to blank assigned and asks for a fresh blank; the order goes back into production', async () => {
     const product = await madeToOrderProduct('four_minute')
-    const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
-    const [ticket] = await waitFor(async () => {
-      const found = await ticketsOf(placed.orderNumber)
-      return found.length === 1 ? found : null
-    }, 10_000, 'the ticket')
+    const { placed, ticket } = await orderWithOneTicket(product)
     const first = await testedBlank('four_minute', quietWav(31))
     expect((await assign(ticket.id, first)).status).toBe(200)
     expect((await cut(ticket.id)).status).toBe(200)
@@ -338,11 +316,7 @@ describe('the ticket life cycle', () => {
       const product = await madeToOrderProduct('two_minute')
       const day = (offset: number) => new Date(Date.now() + offset * 86_400_000).toISOString().slice(0, 10)
       const before = day(3)
-      const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
-      const [ticket] = await waitFor(async () => {
-        const found = await ticketsOf(placed.orderNumber)
-        return found.length === 1 ? found : null
-      }, 10_000, 'the ticket')
+      const { ticket } = await orderWithOneTicket(product)
       expect([before, day(3)]).toContain(ticket.dueDate)
     }
     finally {
@@ -442,11 +416,7 @@ describe('recorders and test cuts', () => {
 describe('the test certificate', () => {
   it('opens for the owner, the maker and a guest with the order link; anyone else and a cylinder not cut yet get 404', async () => {
     const product = await madeToOrderProduct('four_minute')
-    const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
-    const [ticket] = await waitFor(async () => {
-      const found = await ticketsOf(placed.orderNumber)
-      return found.length === 1 ? found : null
-    }, 10_000, 'the ticket')
+    const { placed, ticket } = await orderWithOneTicket(product)
     expect((await collector.get(`/api/certificates/${ticket.id}`)).status).toBe(404)
 
     const code = await testedBlank('four_minute', quietWav(61))
@@ -525,11 +495,7 @@ describe('a test cut on a blank', () => {
 
   it('uses the surface of a tested blank: the blank goes to cut, its history says which cut, and no ticket is offered it', async () => {
     const product = await madeToOrderProduct('four_minute')
-    const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
-    const [ticket] = await waitFor(async () => {
-      const found = await ticketsOf(placed.orderNumber)
-      return found.length === 1 ? found : null
-    }, 10_000, 'the ticket')
+    const { ticket } = await orderWithOneTicket(product)
     const code = await testedBlank('four_minute', quietWav(82))
     expect((await maker.get(`/api/workshop/tickets/${ticket.id}/blanks?q=${code}`)).body.blanks.map((b: any) => b.code)).toEqual([code])
 
@@ -563,11 +529,7 @@ describe('a test cut on a blank', () => {
 
   it('refuses a blank reserved for a customer\'s ticket, a cast and a scrapped one, naming the state; nothing is stored or changed', async () => {
     const product = await madeToOrderProduct('four_minute')
-    const placed = await order(collector, [{ slug: product.slug, qty: 1 }])
-    const [ticket] = await waitFor(async () => {
-      const found = await ticketsOf(placed.orderNumber)
-      return found.length === 1 ? found : null
-    }, 10_000, 'the ticket')
+    const { placed, ticket } = await orderWithOneTicket(product)
     const reserved = await testedBlank('four_minute', quietWav(85))
     expect((await assign(ticket.id, reserved)).status).toBe(200)
     const created = await maker.post('/api/workshop/blanks', { batchId, format: 'four_minute', count: 2, diameterIn: '2.206' })
