@@ -159,6 +159,8 @@ const { server, base, dataDir } = await startServer()
 try {
   await sleep(3000)
   const rssStart = rssMb(server.pid!)
+  const status = readFileSync(`/proc/${server.pid}/status`, 'utf8')
+  console.log(`after start: ${status.match(/^VmRSS.*$/m)?.[0]}; ${status.match(/^RssAnon.*$/m)?.[0]}; ${status.match(/^RssFile.*$/m)?.[0]}`)
 
   // Throughput: health first, then the catalogue page and its API, in the same run.
   let rssPeak = rssStart
@@ -177,7 +179,8 @@ try {
   const surface = await surfaceRatio(base, dataDir)
 
   const before: Record<string, number> = { '/': 74, '/cylinders': 65, 'product': 76, '/cart': 76 }
-  for (const path of pages) {
+  // BENCH_LIGHTHOUSE=0 leaves the page audits out (memory, throughput and the upload only).
+  for (const path of process.env.BENCH_LIGHTHOUSE === '0' ? [] : pages) {
     const name = path.startsWith('/cylinders/') ? 'product' : path
     const scores = await lighthouseOf(`${base}${path}`)
     const js = await firstLoadJs(base, path)

@@ -1,4 +1,9 @@
-import { mkdirSync, rmSync, writeFileSync } from 'node:fs'
+import { execFile } from 'node:child_process'
+import { cpSync, existsSync, mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { dirname, join } from 'node:path'
+import { pathToFileURL } from 'node:url'
+import { promisify } from 'node:util'
 import { PGlite } from '@electric-sql/pglite'
 import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core'
 import { drizzle as drizzlePglite } from 'drizzle-orm/pglite'
@@ -40,19 +45,89 @@ export function useDB(): Promise<Database> {
   return ready
 }
 
+/**
+ * PGlite's start parameters. Its own defaults turn fsync off (-F); a shop's orders need it on. Its default
+ * shared_buffers of 160 MB is WebAssembly memory that, once touched, never goes back to the system; a
+ * shop's database of a few thousand rows works in 16 MB (a data folder's files are read through the
+ * operating system's cache anyway).
+ */
+function embeddedStartParams(): string[] {
+  return [
+    ...PGlite.defaultStartParams.filter(param => param !== '-F'),
+    '-c', 'fsync=on', '-c', 'synchronous_commit=on', '-c', 'full_page_writes=on',
+    '-c', 'shared_buffers=16MB', '-c', 'wal_buffers=1MB',
+  ]
+}
+
+/**
+ * PGlite's package folder, as the server's own imports find it: the nearest node_modules above the entry
+ * script (the built server carries its own copy), else above the working folder. The server bundle
+ * rewrites import.meta, so neither import.meta.resolve nor import.meta.url can say where the bundle is.
+ */
+function pgliteFolder(): string {
+  for (const start of [process.argv[1] ? dirname(process.argv[1]) : null, process.cwd()]) {
+    for (let dir = start; dir; dir = dirname(dir) === dir ? null : dirname(dir)) {
+      const candidate = join(dir, 'node_modules', '@electric-sql', 'pglite')
+      if (existsSync(join(candidate, 'package.json')) && existsSync(join(candidate, 'dist', 'index.js'))) return candidate
+    }
+  }
+  throw new Error('@electric-sql/pglite was not found beside the server')
+}
+
+let templateMaking: Promise<string> | undefined
+
+/** One cluster template at a time: every opening of this process waits for the same one. */
+function clusterTemplate(): Promise<string> {
+  templateMaking ??= makeClusterTemplate().finally(() => {
+    templateMaking = undefined
+  })
+  return templateMaking
+}
+
+/**
+ * An initialised, empty PGlite cluster made once per PGlite version and kept in the system's temporary
+ * folder. initdb inside the server would leave ~450 MB of WebAssembly memory and file-system buffers in its
+ * RSS for good (a second PGlite instance runs it, and V8 does not return that memory); a child process
+ * makes the cluster instead, and exits, and each new data folder starts as a copy of it.
+ */
+async function makeClusterTemplate(): Promise<string> {
+  const packageDir = pgliteFolder()
+  const entry = pathToFileURL(join(packageDir, 'dist/index.js')).href
+  const version = (JSON.parse(readFileSync(join(packageDir, 'package.json'), 'utf8')) as { version: string }).version
+  const template = join(tmpdir(), `groovewright-pglite-${version}`)
+  if (existsSync(join(template, 'PG_VERSION'))) return template
+  const making = `${template}.${process.pid}-${Date.now()}`
+  const script = `const { PGlite } = await import(${JSON.stringify(entry)}); const pg = new PGlite(${JSON.stringify(making)}); await pg.waitReady; await pg.close()`
+  await promisify(execFile)(process.execPath, ['--input-type=module', '-e', script])
+  try {
+    renameSync(making, template)
+  }
+  catch (error) {
+    // Another server made it at the same moment: theirs is as good.
+    rmSync(making, { recursive: true, force: true })
+    if (!existsSync(join(template, 'PG_VERSION'))) throw error
+  }
+  return template
+}
+
 async function openEmbedded(): Promise<Database> {
   const config = useRuntimeConfig()
   const dataDir = String(config.dbDir)
-  if (!dataDir.startsWith('memory://')) mkdirSync(dataDir, { recursive: true })
-  // PGlite starts with fsync off (-F) by default; a shop's orders need it on.
-  const startParams = [...PGlite.defaultStartParams.filter(param => param !== '-F'), '-c', 'fsync=on', '-c', 'synchronous_commit=on', '-c', 'full_page_writes=on']
-  const client = new PGlite(dataDir, { startParams })
+  // memory:// (tests, the bench, a throwaway demo) keeps PGlite's in-memory file system and its in-process
+  // initdb: a folder on disk would cost ~3 times as long per write under load.
+  const inMemory = dataDir.startsWith('memory://')
+  if (!inMemory) {
+    mkdirSync(dataDir, { recursive: true })
+    // A new data folder starts as a copy of the template: initdb never runs inside the server.
+    if (!existsSync(join(dataDir, 'PG_VERSION'))) cpSync(await clusterTemplate(), dataDir, { recursive: true })
+  }
+  const client = new PGlite(dataDir, { startParams: embeddedStartParams() })
   const db = drizzlePglite(client, { schema })
   await migratePglite(db, { migrationsFolder: String(config.migrationsDir) })
   embeddedClient = client
   // Beside the data folder: which process owns it, so `npm run restore` refuses while it is open
   // (whatever port the shop serves on). A stale file from a killed process names a dead pid.
-  const ownerFile = dataDir.startsWith('memory://') ? null : `${dataDir.replace(/\/+$/, '')}.owner`
+  const ownerFile = inMemory ? null : `${dataDir.replace(/\/+$/, '')}.owner`
   if (ownerFile) writeFileSync(ownerFile, JSON.stringify({ pid: process.pid, startedAt: new Date().toISOString() }))
   closeClient = async () => {
     await client.close()
