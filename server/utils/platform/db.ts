@@ -1,6 +1,5 @@
 import { execFile } from 'node:child_process'
-import { cpSync, existsSync, mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs'
-import { tmpdir } from 'node:os'
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs'
 import { dirname, join } from 'node:path'
 import { pathToFileURL } from 'node:url'
 import { promisify } from 'node:util'
@@ -74,40 +73,25 @@ function pgliteFolder(): string {
   throw new Error('@electric-sql/pglite was not found beside the server')
 }
 
-let templateMaking: Promise<string> | undefined
-
-/** One cluster template at a time: every opening of this process waits for the same one. */
-function clusterTemplate(): Promise<string> {
-  templateMaking ??= makeClusterTemplate().finally(() => {
-    templateMaking = undefined
-  })
-  return templateMaking
-}
-
 /**
- * An initialised, empty PGlite cluster made once per PGlite version and kept in the system's temporary
- * folder. initdb inside the server would leave ~450 MB of WebAssembly memory and file-system buffers in its
- * RSS for good (a second PGlite instance runs it, and V8 does not return that memory); a child process
- * makes the cluster instead, and exits, and each new data folder starts as a copy of it.
+ * A new data folder is initialised by a child process that exits: initdb inside the server would leave
+ * ~450 MB of WebAssembly memory and file-system buffers in its RSS for good (a second PGlite instance runs
+ * it, and V8 does not return that memory). The child works in a sibling folder that is renamed into place
+ * only when complete, so a crash mid-way leaves no half-made cluster behind the data folder's name.
  */
-async function makeClusterTemplate(): Promise<string> {
-  const packageDir = pgliteFolder()
-  const entry = pathToFileURL(join(packageDir, 'dist/index.js')).href
-  const version = (JSON.parse(readFileSync(join(packageDir, 'package.json'), 'utf8')) as { version: string }).version
-  const template = join(tmpdir(), `groovewright-pglite-${version}`)
-  if (existsSync(join(template, 'PG_VERSION'))) return template
-  const making = `${template}.${process.pid}-${Date.now()}`
+async function initialiseInChild(dataDir: string): Promise<void> {
+  const entry = pathToFileURL(join(pgliteFolder(), 'dist/index.js')).href
+  const making = `${dataDir.replace(/\/+$/, '')}.initialising-${process.pid}`
+  rmSync(making, { recursive: true, force: true })
   const script = `const { PGlite } = await import(${JSON.stringify(entry)}); const pg = new PGlite(${JSON.stringify(making)}); await pg.waitReady; await pg.close()`
-  await promisify(execFile)(process.execPath, ['--input-type=module', '-e', script])
   try {
-    renameSync(making, template)
+    await promisify(execFile)(process.execPath, ['--input-type=module', '-e', script])
+    rmSync(dataDir, { recursive: true, force: true })
+    renameSync(making, dataDir)
   }
-  catch (error) {
-    // Another server made it at the same moment: theirs is as good.
+  finally {
     rmSync(making, { recursive: true, force: true })
-    if (!existsSync(join(template, 'PG_VERSION'))) throw error
   }
-  return template
 }
 
 async function openEmbedded(): Promise<Database> {
@@ -118,8 +102,8 @@ async function openEmbedded(): Promise<Database> {
   const inMemory = dataDir.startsWith('memory://')
   if (!inMemory) {
     mkdirSync(dataDir, { recursive: true })
-    // A new data folder starts as a copy of the template: initdb never runs inside the server.
-    if (!existsSync(join(dataDir, 'PG_VERSION'))) cpSync(await clusterTemplate(), dataDir, { recursive: true })
+    // A new (empty) data folder is initialised out of process; one holding anything else is left to PGlite.
+    if (!existsSync(join(dataDir, 'PG_VERSION')) && readdirSync(dataDir).length === 0) await initialiseInChild(dataDir)
   }
   const client = new PGlite(dataDir, { startParams: embeddedStartParams() })
   const db = drizzlePglite(client, { schema })
