@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { idField } from './ids'
+import { weightField } from './units'
 
 /*
  * Dispatch: what the shipper sends when checking the heat, packing and shipping an order, what a
@@ -40,7 +41,8 @@ export const dispatchBoxQuerySchema = z.object({ boxId: boxIdField.optional() })
 
 export const dispatchPackSchema = z.object({
   boxId: boxIdField.optional(),
-  weighedG: z.number({ error: 'weighedG must be a number of grams' }).int('weighedG must be whole grams').min(1, 'weighedG must be at least 1 g').max(100_000, 'weighedG is at most 100000 g').optional(),
+  // Grams, or a figure with its unit (`1 lb 4 oz`, `1.45 kg`, `575 g`), kept to the whole gram.
+  weighedG: weightField('weighedG', { min: 1, max: 100_000 }).transform(grams => Math.round(grams)).optional(),
   checklist: z.array(z.enum(packingChecklistIds, { error: `checklist holds ids of ${packingChecklistIds.join(', ')}` }), { error: 'checklist must be a list of ticked ids' }).max(10, 'checklist is too long'),
 })
 export type DispatchPackInput = z.output<typeof dispatchPackSchema>

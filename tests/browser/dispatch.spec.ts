@@ -103,10 +103,18 @@ async function signInAsShipper(page: Page) {
   await expect(page.getByTestId('signed-in-as').first()).toContainText('shipper')
 }
 
-async function heatCheck(page: Page, high: string, days: string) {
-  await page.getByLabel('Forecast high').fill(high)
-  await page.getByLabel('Unit').selectOption('C')
-  await page.getByLabel('Days in transit').fill(days)
+/**
+ * The heat check form filled in `unit`: the field's label names the unit once the page has taken the
+ * choice, and a page still waking up resets what was typed, so it is filled again until all of it holds.
+ */
+async function heatCheck(page: Page, high: string, days: string, unit: 'C' | 'F' = 'C') {
+  await expect(async () => {
+    await page.getByLabel('Unit').selectOption(unit)
+    await page.getByLabel(`Forecast high (°${unit})`).fill(high, { timeout: 1000 })
+    await page.getByLabel('Days in transit').fill(days)
+    await expect(page.getByLabel(`Forecast high (°${unit})`)).toHaveValue(high, { timeout: 500 })
+    await expect(page.getByLabel('Days in transit')).toHaveValue(days, { timeout: 500 })
+  }).toPass({ timeout: 15_000 })
   await page.getByRole('button', { name: 'Check the heat' }).click()
 }
 
@@ -137,7 +145,8 @@ test('the shipper packs and ships a collector\'s order from a phone; the collect
   await expect(page.getByTestId('dispatch-caution')).toContainText(/lift with your legs/i)
   await expect(page.getByTestId('dispatch-caution').getByRole('link', { name: 'Shipping and heat guide' })).toHaveAttribute('href', '/guides/shipping-and-heat')
   await expect(page.getByTestId('packing-figures')).toContainText('Billable weight')
-  await expect(page.getByTestId('packing-figures')).toContainText(/\d g \(/)
+  // The demo shop reads in pounds and ounces, with the metric figure beside.
+  await expect(page.getByTestId('packing-figures')).toContainText(/\d oz \([\d.]+ k?g\)/)
   await noSeriousAxe(page)
 
   // A box from the shop's list is packed again by the server; one too small says why and keeps the last packing.
@@ -158,8 +167,12 @@ test('the shipper packs and ships a collector\'s order from a phone; the collect
   const boxes = page.getByRole('group', { name: /Checklist/ }).getByRole('checkbox')
   expect(await boxes.count()).toBeGreaterThanOrEqual(4)
   for (const box of await boxes.all()) await box.check()
-  await page.getByLabel('Weighed (g)').fill('1450')
+  // Typed with its units; the server keeps whole grams: 3 lb 3 oz = 51 × 28.3495 g = 1445.8 g (the avoirdupois ounce).
+  await page.getByLabel('Weighed (lb)').fill('3 lb 3 oz')
+  await expect(page.getByText('Read as 3 lb 3 oz (1.45 kg)')).toBeVisible()
+  const packed = page.waitForResponse(response => response.url().endsWith(`/api/dispatch/${orderNumber}/pack`))
   await page.getByRole('button', { name: 'Mark packed' }).click()
+  expect((await (await packed).json()).weighedG).toBe(1446)
   await expect(page.getByTestId('dispatch-status')).toHaveText('Packed')
 
   // The slip opens in a new tab as a PDF.
@@ -274,4 +287,57 @@ test('an order held for heat cannot be packed and waits under "Held for heat"', 
   await expect(held).toContainText('Hold the parcel')
   await expect(held).toContainText('Look again')
   await noSeriousAxe(page)
+})
+
+test('the shop\'s units: the same heat check and weights read in °F and lb, then in °C and kg', async ({ page, browser }) => {
+  test.setTimeout(150_000)
+  const maker = await signedInContext(browser, 'maker')
+  const before = await api(maker.request, 'GET', '/api/shop/units')
+  const setUnits = async (units: Record<string, string>) => {
+    const response = await maker.request.fetch('/api/workshop/settings/units', { method: 'PUT', headers: { origin: site }, data: units })
+    expect(response.status(), await response.text()).toBe(200)
+  }
+  try {
+    const orderNumber = await readyToPackOrder(maker.request, maker.request, `guest-${Date.now()}@collectors.test`, 303)
+    await setUnits({ temperature: 'F', length: 'in', weight: 'lb', locale: 'en-US' })
+    await page.setViewportSize(phone)
+    await signInAsShipper(page)
+    await page.goto(`/dispatch/${orderNumber}`)
+    const figures = page.getByTestId('packing-figures')
+    const billable = figures.locator('dd').last()
+
+    // 95 °F typed in a °F shop: the unit is the shop's without choosing it.
+    await expect(page.getByLabel('Unit')).toHaveValue('F')
+    await heatCheck(page, '95', '3', 'F')
+    const answer = page.getByTestId('heat-answer')
+    await expect(answer).toContainText('The shop\'s limits')
+    const verdictInF = await answer.locator('p').first().textContent()
+    await expect(answer).toContainText(/caution from [\d.]+ °F \([\d.]+ °C\)/)
+    await expect(billable).toHaveText(/^(\d+ lb )?[\d.]+ oz \([\d.]+ k?g\)$/)
+    const [, imperial, metric] = /^(.+ oz) \((.+)\)$/.exec((await billable.textContent())!.trim())!
+    await page.reload()
+    await expect(page.getByText('95 °F (35 °C) forecast')).toBeVisible()
+    await noSeriousAxe(page)
+    await shootBoth(page, 'dispatch-units-f-lb')
+
+    // The same figures in a °C / kg / mm shop: 35 °C is 95 °F ((95 − 32) × 5/9), so the same verdict.
+    await setUnits({ temperature: 'C', length: 'mm', weight: 'kg', locale: 'en-GB' })
+    await page.reload()
+    await expect(page.getByText('35 °C (95 °F) forecast')).toBeVisible()
+    await expect(billable).toHaveText(`${metric} (${imperial})`)
+    await expect(figures).toContainText(/\d+ × \d+ × \d+ mm/)
+    await expect(page.getByLabel('Unit')).toHaveValue('C')
+    await heatCheck(page, '35', '3', 'C')
+    await expect(answer).toContainText(/caution from [\d.]+ °C \([\d.]+ °F\)/)
+    await expect(answer.locator('p').first()).toHaveText(verdictInF!)
+    // A bare figure is in the shop's unit: 1.45 in a kg shop is 1.45 kg.
+    await page.getByLabel('Weighed (kg)').fill('1.45')
+    await expect(page.getByText('Read as 1.45 kg (3 lb 3.1 oz)')).toBeVisible()
+    await noSeriousAxe(page)
+    await shootBoth(page, 'dispatch-units-c-kg')
+  }
+  finally {
+    await setUnits(before)
+    await maker.close()
+  }
 })
