@@ -1,9 +1,10 @@
 import { cylinderFormatTable } from '#shared/utils/cylinder'
-import { formatInches, formatMillimetres } from '#shared/utils/length'
+import { formatLength, type UnitPreferences } from '#shared/utils/units'
+import { countOf, formatDay } from '#shared/utils/wording'
 import type { Certificate } from '~/composables/useCertificate'
 
-/** A certificate's date in words ("3 December 2026"); a bare day is read at noon UTC so it never slips. */
-export const certificateDay = (iso: string | null | undefined) => iso ? new Date(iso.length === 10 ? `${iso}T12:00:00Z` : iso).toLocaleDateString('en-GB', { dateStyle: 'long' }) : '—'
+/** A certificate's date in words in the shop's locale ("3 December 2026"); a bare day never slips a day. */
+export const certificateDay = (iso: string | null | undefined, locale?: string) => iso ? formatDay(iso, locale, 'long') : '—'
 
 /** A level in dBFS with a true minus sign. */
 export const formatDbfs = (value: number) => `${value.toFixed(1).replace('-', '−')} dBFS`
@@ -16,28 +17,28 @@ export interface CertificateFact { label: string, value: string, mono?: boolean 
 const present = (facts: (CertificateFact | false | null | undefined)[]) => facts.filter((fact): fact is CertificateFact => !!fact)
 
 /** The blank a cylinder was cut on: code, format, wax batch, diameter, surface, and the maker's reason where it was not the usual one. */
-export function certificateBlankFacts(certificate: Certificate): CertificateFact[] {
+export function certificateBlankFacts(certificate: Certificate, prefs: UnitPreferences): CertificateFact[] {
   const { blank, batch } = certificate
   return present([
     { label: 'Blank code', value: blank.code, mono: true },
     { label: 'Format', value: cylinderFormatTable[certificate.format].label },
-    { label: 'Wax batch', value: `${batch.code}, poured ${certificateDay(batch.pourDate)} — ${batch.waxFormula ? `${batch.waxFormula} wax: ` : ''}${batch.formula}` },
-    { label: 'Outside diameter', value: blank.diameterIn ? `${formatInches(blank.diameterIn)} in (${formatMillimetres(blank.diameterIn, 1)} mm)` : 'not recorded' },
-    { label: 'Surface', value: blank.surface === 1 ? 'the first surface shaved on this blank' : `surface ${blank.surface} (reshaved ${blank.surface - 1} time${blank.surface > 2 ? 's' : ''})` },
+    { label: 'Wax batch', value: `${batch.code}, poured ${certificateDay(batch.pourDate, prefs.locale)} — ${batch.waxFormula ? `${batch.waxFormula} wax: ` : ''}${batch.formula}` },
+    { label: 'Outside diameter', value: blank.diameterIn ? formatLength(blank.diameterIn, prefs, { decimal: true }) : 'not recorded' },
+    { label: 'Surface', value: blank.surface === 1 ? 'the first surface shaved on this blank' : `surface ${blank.surface} (reshaved ${countOf(blank.surface - 1, 'time', 'times', prefs.locale)})` },
     !!certificate.blankOverrideReason && { label: 'Blank chosen by the maker', value: `Not the wax or format the item is usually made of: ${certificate.blankOverrideReason}` },
   ])
 }
 
 /** The cut: recorder, horn, stylus, day, the test of the cut and when it was ready. */
-export function certificateCutFacts(certificate: Certificate): CertificateFact[] {
+export function certificateCutFacts(certificate: Certificate, prefs: UnitPreferences): CertificateFact[] {
   const { recorder, testCut } = certificate
   return present([
     { label: 'Recorder', value: recorder?.name ?? '—' },
     !!recorder?.horn && { label: 'Horn', value: recorder.horn },
     !!recorder?.stylus && { label: 'Cutting stylus', value: recorder.stylus },
-    { label: 'Cut on', value: certificateDay(certificate.cutAt) },
+    { label: 'Cut on', value: certificateDay(certificate.cutAt, prefs.locale) },
     !!testCut && { label: 'Test of the cut', value: `${formatDbfs(testCut.aWeightedDbfs)} A-weighted, ${testCut.clicksPerMinute.toFixed(1)} clicks a minute (${certificateVerdictWords[testCut.verdict]})` },
-    { label: 'Ready for dispatch', value: certificate.readyAt ? certificateDay(certificate.readyAt) : 'not yet' },
+    { label: 'Ready for dispatch', value: certificate.readyAt ? certificateDay(certificate.readyAt, prefs.locale) : 'not yet' },
   ])
 }
 
