@@ -213,9 +213,14 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
   const collector = await signIn(page, 'collector')
 
   await page.goto('/custom')
-  await page.getByLabel('Occasion').fill('Wedding')
-  await page.getByLabel('Recipient\'s name').fill('Tamsin and Orrin')
-  await page.getByLabel('The script').fill(scriptOf(8))
+  // A page still waking up resets what was typed into it: filled again until every field holds.
+  await expect(async () => {
+    await page.getByLabel('Occasion').fill('Wedding')
+    await page.getByLabel('Recipient\'s name').fill('Tamsin and Orrin')
+    await page.getByLabel('The script').fill(scriptOf(8))
+    await expect(page.getByLabel('Occasion')).toHaveValue('Wedding', { timeout: 500 })
+    await expect(page.getByLabel('Recipient\'s name')).toHaveValue('Tamsin and Orrin', { timeout: 500 })
+  }).toPass({ timeout: 15_000 })
   await expect(page.getByTestId('fit-verdict')).toHaveText('Fits')
   await page.getByRole('button', { name: 'Add to cart' }).click()
   await expect(page.getByText('is in your cart')).toBeVisible()
