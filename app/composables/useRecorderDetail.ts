@@ -4,6 +4,8 @@
  */
 export async function useRecorderDetail(id: number) {
   const key = `workshop-recorder-${id}`
+  // Before the await: a composable loses the component's context after one.
+  const { day, count } = useUnits()
   const { data: detail, error } = await useFetch(`/api/workshop/recorders/${id}`, { key })
   if (error.value) throw createError({ statusCode: 404, statusMessage: 'No such recorder.', fatal: true })
   const refresh = () => refreshNuxtData(key)
@@ -20,7 +22,7 @@ export async function useRecorderDetail(id: number) {
     if (cuts.length === 0) return 'No test cuts yet.'
     const first = cuts[0]!
     const last = cuts.at(-1)!
-    return `${cuts.length} test cuts from ${new Date(first.cutAt).toLocaleDateString('en-GB')} to ${new Date(last.cutAt).toLocaleDateString('en-GB')}; level from ${first.aWeightedDbfs.toFixed(1)} to ${last.aWeightedDbfs.toFixed(1)} dBFS A-weighted, clicks from ${first.clicksPerMinute.toFixed(1)} to ${last.clicksPerMinute.toFixed(1)} a minute.`
+    return `${count(cuts.length, 'test cut')} from ${day(first.cutAt)} to ${day(last.cutAt)}; level from ${first.aWeightedDbfs.toFixed(1)} to ${last.aWeightedDbfs.toFixed(1)} dBFS A-weighted, clicks from ${first.clicksPerMinute.toFixed(1)} to ${last.clicksPerMinute.toFixed(1)} a minute.`
   })
 
   return { detail, refresh, series, summary }

@@ -1,6 +1,11 @@
-/** A ticket's date (a plain day or a moment) as the workshop reads it: "3 Dec 2026"; a dash when there is none. */
-export function ticketDay(iso: string | null): string {
-  return iso ? new Date(iso.length === 10 ? `${iso}T12:00:00Z` : iso).toLocaleDateString('en-GB', { dateStyle: 'medium' }) : '—'
+import { formatDay } from '#shared/utils/wording'
+
+/**
+ * A ticket's date (a plain day or a moment) as the workshop reads it, in the shop's locale (`useUnits().prefs`):
+ * "3 Dec 2026" or "Dec 3, 2026"; a dash when there is none.
+ */
+export function ticketDay(iso: string | null, locale?: string): string {
+  return iso ? formatDay(iso, locale) : '—'
 }
 
 /** A level in dBFS with one decimal and a typographic minus: "−48.2 dBFS". */

@@ -139,7 +139,8 @@ export const blankReamingSchema = z.object({
   overhangBeforeIn: lengthField('overhangBeforeIn', { allowNegative: true, ...lengthBounds.overhangIn }),
   overhangAfterIn: lengthField('overhangAfterIn', { allowNegative: true, ...lengthBounds.overhangIn }),
   reamings: wholeNumber('reamings', 1, 40),
-  roomTemperatureF: numberInputField('roomTemperatureF', { min: 32, max: 120 }),
+  /** °F as stored; a text may name its unit (`23 C`), as the shop's own unit is typed. */
+  roomTemperatureF: temperatureField('roomTemperatureF', { stored: 'F', min: 32, max: 120 }),
   /** A reaming after shaving has begun: the maker accepts that the current surface is spent. */
   refit: z.boolean({ error: 'refit must be true or false' }).default(false),
   notes: workshopText('notes', 1000).default(''),

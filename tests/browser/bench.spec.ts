@@ -212,3 +212,50 @@ test('heat and fit from a poured batch brings its own expansion and warns near i
   await expect(card.getByTestId('heat-fit-wax')).toContainText('Expansion of batch WB-26-03: 660 × 10⁻⁶ per K')
   await expect(card).toContainText('within 7 °C of batch WB-26-03\'s softening point (52 °C)')
 })
+
+test('in a °C and millimetre shop the bench takes and answers in those units: 35 °C grows the bore as 95 °F does', async ({ page, baseURL }) => {
+  await page.setViewportSize({ width: 1280, height: 900 })
+  await signInAsMaker(page)
+  const setUnits = async (units: { temperature: 'C' | 'F', length: 'in' | 'mm', weight: 'lb' | 'kg', locale: string }) => {
+    const answer = await page.request.put('/api/workshop/settings/units', { data: units, headers: { origin: baseURL! } })
+    expect(answer.status(), await answer.text()).toBe(200)
+  }
+  const card = page.getByRole('region', { name: 'Heat and fit' })
+  const answer = page.getByTestId('heat-fit-answer')
+  const growth = () => answer.locator('dl > div').filter({ hasText: 'Bore grows' }).locator('dd')
+  async function shift(temperature: string) {
+    await card.getByLabel('Blank temperature').fill(temperature)
+    await card.getByRole('button', { name: 'Work out the shift' }).click()
+    await expect(card.getByRole('button', { name: 'Work out the shift' })).toBeEnabled()
+  }
+
+  // The shop's default units (°F, inches): 95 °F, the bore's growth in inches with millimetres beside.
+  await page.goto('/workshop/bench')
+  await expect(card.locator('#heat-fit-unit')).toHaveValue('F')
+  await shift('20')
+  await shift('95')
+  await expect(growth().first()).toHaveText(/^0\.\d{4} in$/)
+  const mmAt95F = /(0\.\d{3}) mm/.exec(await growth().nth(1).innerText())![1]!
+
+  try {
+    await setUnits({ temperature: 'C', length: 'mm', weight: 'kg', locale: 'en-GB' })
+    await page.goto('/workshop/bench')
+    // The unit chosen and the labels follow the shop; lengths are asked for in millimetres.
+    await expect(card.locator('#heat-fit-unit')).toHaveValue('C')
+    await expect(card.getByLabel('Blank temperature (°C)')).toBeVisible()
+    await expect(card.getByLabel('Bore diameter (mm)')).toBeVisible()
+    await expect(page.getByRole('region', { name: 'Reaming plan' }).getByLabel('Blank temperature (°C)')).toBeVisible()
+    await shift('30')
+    await expect(growth().first()).not.toHaveText(`${mmAt95F} mm`)
+    // 35 °C = 95 °F exactly ((95 − 32) × 5/9, the Celsius–Fahrenheit definition): the same growth, now millimetres first.
+    await shift('35')
+    await expect(growth().first()).toHaveText(`${mmAt95F} mm`)
+    await expect(growth().nth(1)).toContainText(' in, ')
+    await page.screenshot({ path: `${shots}/bench-metric-desktop.png`, fullPage: true })
+    await page.setViewportSize({ width: 390, height: 844 })
+    await page.screenshot({ path: `${shots}/bench-metric-phone.png`, fullPage: true })
+  }
+  finally {
+    await setUnits({ temperature: 'F', length: 'in', weight: 'lb', locale: 'en-US' })
+  }
+})
