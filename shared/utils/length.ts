@@ -1,11 +1,11 @@
 import Fraction from 'fraction.js'
 import { z } from 'zod'
 
-/** 1 in = 25.4 mm exactly (NIST). */
-export const MILLIMETRES_PER_INCH = 25.4
+import { formatInchFraction, inchesToMillimetres, isWholeSixtyFourth } from './unitFormat'
 
-/** The finest fraction the trade's rules are marked in. */
-export const INCH_FRACTION_DENOMINATOR = 64
+// The plain conversions and the rule fraction live in the validation-free unitFormat.ts (pages format
+// lengths without this parser); they can be imported from here too by the code that reads lengths.
+export * from './unitFormat'
 
 /** "1 3/16 in", "11.1 mm" and their like are short; a longer text is not a reading. */
 const LENGTH_TEXT_MAX_CHARS = 40
@@ -141,14 +141,6 @@ export function parseLength(input: string | number, options: LengthParseOptions 
   return inches
 }
 
-export function inchesToMillimetres(inches: number): number {
-  return inches * MILLIMETRES_PER_INCH
-}
-
-export function millimetresToInches(millimetres: number): number {
-  return millimetres / MILLIMETRES_PER_INCH
-}
-
 /** Inches as a decimal, three places by default: `1.188`. */
 export function formatInches(inches: number, places = 3): string {
   return inches.toFixed(places)
@@ -157,18 +149,6 @@ export function formatInches(inches: number, places = 3): string {
 /** Millimetres as a decimal, two places by default: `30.16`. */
 export function formatMillimetres(inches: number, places = 2): string {
   return inchesToMillimetres(inches).toFixed(places)
-}
-
-/** The nearest 1/64 in, reduced, the way a rule is read: `1 3/16`, `7/16`, `2`, `0`. */
-export function formatInchFraction(inches: number): string {
-  const sixtyFourths = Math.round(inches * INCH_FRACTION_DENOMINATOR)
-  return new Fraction(sixtyFourths, INCH_FRACTION_DENOMINATOR).toFraction(true)
-}
-
-/** Whether `inches` is exactly a multiple of 1/64 in (so its fraction is not an approximation). */
-export function isWholeSixtyFourth(inches: number): boolean {
-  // Scaling by a power of two is exact in floating point, so this test is too.
-  return Number.isInteger(inches * INCH_FRACTION_DENOMINATOR)
 }
 
 /**

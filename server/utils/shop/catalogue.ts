@@ -27,6 +27,10 @@ export function blankProductFacts(product: Pick<ProductRow, 'waxFormulaId' | 'st
     wax: wax.label,
     surfaces: blankSurfacesLeft(outsideDiameterIn, minimumDiameterIn, depthPerSurfaceIn).surfacesLeft ?? 0,
     tested: product.stockSource === 'register',
+    // The same sizes as figures (inches), for the page to show in the shop's length unit.
+    lengthIn,
+    outsideDiameterIn,
+    boreIn: engine.fit.boreDiameterIn,
   }
 }
 
