@@ -37,5 +37,25 @@ describe('the shop as each role sees it', () => {
     const product = await pageAs(client, `/cylinders/${inStock.slug}`)
     expect(product.includes('href="/cart"')).toBe(cart)
     expect(product.includes('Add to cart')).toBe(cart)
+
+    // A personal message is put in the cart by a customer; the workshop's accounts read a line instead.
+    const custom = await pageAs(client, '/custom')
+    expect(custom.includes('Add to cart')).toBe(cart)
+    expect(custom.includes('data-testid="custom-not-shopper"')).toBe(!cart)
+
+    // The cart reached by its address: a plain note for the maker and the shipper, no checkout.
+    const cartPage = await pageAs(client, '/cart')
+    expect(cartPage.includes('data-testid="cart-not-shopper"')).toBe(!cart)
+    expect(cartPage.includes('Loading your cart')).toBe(cart)
+  })
+
+  it.each([
+    { who: 'a collector', role: 'collector' as const, orders: true },
+    { who: 'the maker', role: 'maker' as const, orders: false },
+    { who: 'the shipper', role: 'shipper' as const, orders: false },
+  ])('$who: the account page offers orders $orders', async ({ role, orders }) => {
+    const account = await pageAs(await signedInAs(role), '/account')
+    expect(account.includes('Your account')).toBe(true)
+    expect(account.includes('See your orders')).toBe(orders)
   })
 })
