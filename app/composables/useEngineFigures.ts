@@ -1,4 +1,6 @@
 import type { EngineSettings } from '#shared/utils/engineSettings'
+import type { UnitPreferences } from '#shared/utils/units'
+import { editedFigure, isEditedFigure, typedWithUnit } from '~/composables/useUnits'
 import { engineFigureSections, type FigureKind, type FigureRows } from '~/utils/engineFigureSections'
 
 export type FigureCell = string | boolean
@@ -23,8 +25,9 @@ function minorDigits(currency: string): number {
   }
 }
 
-function show(value: unknown, kind: FigureKind, digits: number): FigureCell {
+function show(value: unknown, kind: FigureKind, digits: number, prefs: UnitPreferences): FigureCell {
   if (kind === 'bool') return Boolean(value)
+  if (isEditedFigure(kind) && typeof value === 'number') return editedFigure(value, kind, prefs)
   if (kind === 'money' && typeof value === 'number') return (value / 10 ** digits).toFixed(digits)
   // A length on the 1/64 in rule reads as the maker says it (7/16, 1 3/16); others as decimals.
   if (kind === 'length' && typeof value === 'number' && !Number.isInteger(value) && isWholeSixtyFourth(value)) return formatInchFraction(value)
@@ -33,9 +36,10 @@ function show(value: unknown, kind: FigureKind, digits: number): FigureCell {
 }
 
 /** What the server gets: numbers where the text is one (a typographic minus or decimal comma accepted), else the text, for the server to name. */
-function parse(cell: FigureCell, kind: FigureKind, digits: number): unknown {
+function parse(cell: FigureCell, kind: FigureKind, digits: number, prefs: UnitPreferences): unknown {
   if (kind === 'bool') return Boolean(cell)
   const text = String(cell).trim()
+  if (isEditedFigure(kind)) return typedWithUnit(text, kind, prefs)
   if (kind === 'text' || kind === 'length') return text
   const cleaned = text.replace('−', '-').replace(',', '.')
   if (cleaned === '' || !Number.isFinite(Number(cleaned))) return text
@@ -53,18 +57,40 @@ export async function useEngineFigures() {
   const request = useFetch<{ settings: EngineSettings, defaults: EngineSettings }>('/api/workshop/settings/engine', { key: 'settings-engine' })
   const { data, refresh } = request
 
+  const { prefs } = useUnits()
+
   const values = reactive<Record<string, FigureCell>>({})
   const rows = reactive<Record<string, Record<string, FigureCell>[]>>({})
+  // A figure converted into the shop's unit and left as shown is sent as stored, so saving moves nothing by rounding.
+  const storedOf = new Map<string, { shown: FigureCell, stored: unknown }>()
+  const storedRows = new WeakMap<object, Map<string, { shown: FigureCell, stored: unknown }>>()
+
+  function shown(stored: unknown, kind: FigureKind, digits: number, memo: Map<string, { shown: FigureCell, stored: unknown }>, path: string): FigureCell {
+    const cell = show(stored, kind, digits, prefs.value)
+    if (isEditedFigure(kind)) memo.set(path, { shown: cell, stored })
+    return cell
+  }
 
   function fill(settings: EngineSettings) {
     const digits = minorDigits(settings.prices.currency)
+    storedOf.clear()
     for (const section of sections) {
-      for (const field of section.fields) values[field.path] = show(read(settings, field.path), field.kind, digits)
+      for (const field of section.fields) values[field.path] = shown(read(settings, field.path), field.kind, digits, storedOf, field.path)
       for (const list of section.rows ?? []) {
         const items = (read(settings, list.path) as unknown[]) ?? []
-        rows[list.path] = items.map(item => Object.fromEntries(list.columns.map(column => [column.path, show(read(item, column.path), column.kind, digits)])))
+        rows[list.path] = items.map((item) => {
+          const memo = new Map<string, { shown: FigureCell, stored: unknown }>()
+          const row = Object.fromEntries(list.columns.map(column => [column.path, shown(read(item, column.path), column.kind, digits, memo, column.path)]))
+          storedRows.set(row, memo)
+          return row
+        })
       }
     }
+  }
+
+  function sent(cell: FigureCell, kind: FigureKind, digits: number, memo: Map<string, { shown: FigureCell, stored: unknown }> | undefined, path: string): unknown {
+    const first = memo?.get(path)
+    return first && first.shown === cell ? first.stored : parse(cell, kind, digits, prefs.value)
   }
   watchEffect(() => {
     if (data.value) fill(data.value.settings)
@@ -74,11 +100,13 @@ export async function useEngineFigures() {
     const digits = minorDigits(String(values['prices.currency'] ?? 'USD'))
     const out: Record<string, unknown> = {}
     for (const section of sections) {
-      for (const field of section.fields) write(out, field.path, parse(values[field.path] ?? '', field.kind, digits))
+      for (const field of section.fields) write(out, field.path, sent(values[field.path] ?? '', field.kind, digits, storedOf, field.path))
       for (const list of section.rows ?? []) {
         write(out, list.path, (rows[list.path] ?? []).map((row) => {
           const item: Record<string, unknown> = {}
-          for (const column of list.columns) write(item, column.path, parse(row[column.path] ?? '', column.kind, digits))
+          // A reactive row is a proxy: its raw object is the key its first figures were kept under.
+          const memo = storedRows.get(toRaw(row))
+          for (const column of list.columns) write(item, column.path, sent(row[column.path] ?? '', column.kind, digits, memo, column.path))
           return item
         }))
       }

@@ -1,7 +1,9 @@
 // The workshop figures form, section by section: each field's path in the `engine` setting
 // (shared/utils/engineSettings.ts), its label, kind and hint, and the lists edited row by row.
 // A new shop figure gets a line here.
-export type FigureKind = 'number' | 'int' | 'length' | 'money' | 'bool' | 'text'
+// Temperatures and weights ('celsius', 'fahrenheit', 'celsiusStep', 'grams': the stored unit) are shown
+// and typed in the shop's units, their label naming the unit.
+export type FigureKind = 'number' | 'int' | 'length' | 'money' | 'bool' | 'text' | 'celsius' | 'fahrenheit' | 'celsiusStep' | 'grams'
 export interface FigureField { path: string, label: string, kind: FigureKind, hint?: string }
 export interface FigureRows { path: string, title: string, item: string, columns: FigureField[], blank: () => Record<string, unknown> }
 export interface FigureSection { id: string, title: string, lead: string, caution?: string, fields: FigureField[], rows?: FigureRows[] }
@@ -77,7 +79,7 @@ export const engineFigureSections: FigureSection[] = [
     ['minimumDiameterIn', 'Smallest diameter still shaved (in)', 'length'],
   ]),
   section({ id: 'fit', title: 'Fit, mandrel and wax', lead: 'The temperature fit is judged at, the bore, the mandrel\'s taper and the expansion of each wax.' }, 'fit.', [
-    ['referenceTemperatureF', 'Fit judged at (°F)', 'number', 'About 75 °F (common practice, no source).'],
+    ['referenceTemperatureF', 'Fit judged at', 'fahrenheit', 'About 75 °F, 24 °C (common practice, no source).'],
     ['boreDiameterIn', 'Bore diameter (in)', 'length'],
     ['taper.perFootIn', 'Mandrel taper, diameter per foot (in)', 'length', 'About 3/8 in per foot is from memory: measure your own mandrel.'],
     ['taper.unverified', 'The taper is not yet measured on our own mandrel (results say so)', 'bool'],
@@ -85,16 +87,16 @@ export const engineFigureSections: FigureSection[] = [
     ['volumetricExpansionPerK', 'Volumetric expansion (per K)', 'number', 'e.g. 0.00081 for stearic acid (engineering handbook tables).'],
   ])]),
   section({ id: 'heat', title: 'Heat holds', lead: 'Forecast highs at the destination from which a parcel ships with care, or waits.' }, 'heat.', [
-    ['cautionHighC', 'Ship with care from (°C)'],
-    ['holdHighC', 'Hold the parcel from (°C)'],
-    ['stricterPerTransitDayC', 'Stricter per extra day in transit (°C)'],
+    ['cautionHighC', 'Ship with care from', 'celsius'],
+    ['holdHighC', 'Hold the parcel from', 'celsius'],
+    ['stricterPerTransitDayC', 'Stricter per extra day in transit', 'celsiusStep'],
   ]),
   section({ id: 'packing', title: 'Packing', lead: 'Tubes, boxes and weights for choosing the smallest box and the billable weight.' }, 'packing.', [
     ['cushioningIn', 'Cushioning on every side (in)', 'number', 'At least 2 in (carrier packing guidance).'],
     ['doubleBoxFragile', 'Double-box fragile goods', 'bool'],
     ['dimensionalDivisorIn3PerLb', 'Dimensional divisor (in³ per lb)', 'number', 'Your carrier\'s figure; 139 is common in the US.'],
-    ['cylinderWeightG', 'A cylinder weighs (g)'],
-    ['fillerWeightG', 'Filler per parcel (g)'],
+    ['cylinderWeightG', 'A cylinder weighs', 'grams'],
+    ['fillerWeightG', 'Filler per parcel', 'grams'],
     ['cylindersPerParcel', 'Most cylinders per parcel', 'int'],
   ], [
     list('packing.tubes', 'Tubes', 'Tube', [
@@ -102,14 +104,14 @@ export const engineFigureSections: FigureSection[] = [
       ['insideLengthIn', 'Inside length (in)'],
       ['outsideDiameterIn', 'Outside diameter (in)'],
       ['outsideLengthIn', 'Outside length (in)'],
-      ['weightG', 'Weight (g)'],
+      ['weightG', 'Weight', 'grams'],
     ]),
     list('packing.boxes', 'Boxes', 'Box', [
       ['inside.lengthIn', 'Inside length (in)'],
       ['inside.widthIn', 'Inside width (in)'],
       ['inside.heightIn', 'Inside height (in)'],
       ['wallIn', 'Wall (in)'],
-      ['weightG', 'Weight (g)'],
+      ['weightG', 'Weight', 'grams'],
     ]),
   ]),
   section({ id: 'prices', title: 'Prices, shipping and tax', lead: 'Amounts are in the currency below, with its usual decimals.' }, 'prices.', [

@@ -11,6 +11,8 @@ const shots = 'tests/browser/report'
 async function signInAsMaker(page: Page) {
   const maker = demoAccounts.find(a => a.role === 'maker')!
   await page.goto('/signin')
+  // The submit button is enabled once the page is hydrated: typing before that can be wiped.
+  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
   await page.getByLabel('E-mail').fill(maker.email)
   await page.getByLabel('Password').fill(maker.password)
   await page.getByRole('button', { name: 'Sign in' }).click()
