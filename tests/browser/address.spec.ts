@@ -12,6 +12,7 @@ test('opened as 127.0.0.1, the shop moves to the printed address first; the paym
   const collector = demoAccounts.find(a => a.role === 'collector')!
   await page.goto(`${otherName}/signin`)
   await expect(page).toHaveURL(`${printed}/signin`)
+  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
   await page.getByLabel('E-mail').fill(collector.email)
   await page.getByLabel('Password').fill(collector.password)
   await page.getByRole('button', { name: 'Sign in' }).click()

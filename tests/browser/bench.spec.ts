@@ -7,6 +7,7 @@ const shots = 'tests/browser/report'
 async function signInAsMaker(page: Page) {
   const maker = demoAccounts.find(a => a.role === 'maker')!
   await page.goto('/signin')
+  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
   await page.getByLabel('E-mail').fill(maker.email)
   await page.getByLabel('Password').fill(maker.password)
   await page.getByRole('button', { name: 'Sign in' }).click()

@@ -8,6 +8,7 @@ const maker = demoAccounts.find(a => a.role === 'maker')!
 
 async function signInAsMaker(page: Page) {
   await page.goto('/signin')
+  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
   await page.getByLabel('E-mail').fill(maker.email)
   await page.getByLabel('Password').fill(maker.password)
   await page.getByRole('button', { name: 'Sign in' }).click()

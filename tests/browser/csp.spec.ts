@@ -27,6 +27,7 @@ function watchPolicy(page: Page) {
 async function signIn(page: Page, role: string) {
   const account = demoAccounts.find(a => a.role === role)!
   await page.goto('/signin')
+  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
   await page.getByLabel('E-mail').fill(account.email)
   await page.getByLabel('Password').fill(account.password)
   await page.getByRole('button', { name: 'Sign in' }).click()

@@ -74,6 +74,7 @@ test('the product page links the care guide; the bench and the batches page link
   await expect(page.getByRole('link', { name: 'the care guide' })).toHaveAttribute('href', '/guides/care')
   const maker = demoAccounts.find(a => a.role === 'maker')!
   await page.goto('/signin')
+  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
   await page.getByLabel('E-mail').fill(maker.email)
   await page.getByLabel('Password').fill(maker.password)
   await page.getByRole('button', { name: 'Sign in' }).click()

@@ -7,6 +7,7 @@ const shots = 'tests/browser/report'
 async function signIn(page: Page, role: string) {
   const account = demoAccounts.find(a => a.role === role)!
   await page.goto('/signin')
+  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
   await page.getByLabel('E-mail').fill(account.email)
   await page.getByLabel('Password').fill(account.password)
   await page.getByRole('button', { name: 'Sign in' }).click()
@@ -67,6 +68,7 @@ test('a collector sent to the workshop is turned away, and an anonymous visitor 
 
 test('registration shows the field that needs fixing, then signs the collector in', async ({ page }) => {
   await page.goto('/register')
+  await expect(page.getByRole('button', { name: 'Create account' })).toBeEnabled()
   await page.getByLabel('Your name').fill('Wren Holloway')
   await page.getByLabel('E-mail').fill(`wren-${Date.now()}@collectors.test`)
   await page.getByLabel('Password').fill('password123')

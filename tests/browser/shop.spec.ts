@@ -160,6 +160,7 @@ test('at phone width: cancelling on the payment page gives the order up; paying 
   // The maker's view of the same order, with the refund form choosing what goes back on sale.
   const maker = demoAccounts.find(account => account.role === 'maker')!
   await page.goto('/signin')
+  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
   await page.getByLabel('E-mail').fill(maker.email)
   await page.getByLabel('Password').fill(maker.password)
   await page.getByRole('button', { name: 'Sign in' }).click()
