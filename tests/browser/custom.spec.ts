@@ -220,6 +220,7 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
     await page.getByLabel('The script').fill(scriptOf(8))
     await expect(page.getByLabel('Occasion')).toHaveValue('Wedding', { timeout: 500 })
     await expect(page.getByLabel('Recipient\'s name')).toHaveValue('Tamsin and Orrin', { timeout: 500 })
+    await expect(page.getByLabel('The script')).toHaveValue(scriptOf(8), { timeout: 500 })
   }).toPass({ timeout: 15_000 })
   await expect(page.getByTestId('fit-verdict')).toHaveText('Fits')
   await page.getByRole('button', { name: 'Add to cart' }).click()
