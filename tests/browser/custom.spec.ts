@@ -261,7 +261,7 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
   }, { timeout: 15_000 }).toBeGreaterThan(0)
   // The board shows the message's fit and its wished-for date.
   await maker.goto(`/workshop/tickets?q=${orderNumber}`)
-  await expect(maker.getByTestId(`ticket-${ticketId}`).getByTestId('custom-fit')).toContainText(/Message 0:\d\d, fits ·\s+wished for \d+ \w+ 20\d\d/)
+  await expect(maker.getByTestId(`ticket-${ticketId}`).getByTestId('custom-fit')).toContainText(/Message 0:\d\d, fits ·\s+wished for (\d+ \w+|\w+ \d+,) 20\d\d/)
   await cutAndSendProof(maker, ticketId, blanks[0]!, 1)
 
   // The cue sheet: the script in large type with its marks.
