@@ -3,8 +3,9 @@ import { lengthBounds } from './bounds'
 import { cylinderFormats, groovePitchMm, playingTimeMinutes, rotationFrequencyHz, standardBlankDimensions, surfaceSpeedInPerSec } from './cylinder'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
-import { heatFitShift, heatRisk } from './heat'
-import { fahrenheitToCelsius, temperatureField } from './units'
+import { celsiusHeatWords, formatTemperatureStep, heatFitShift, heatRisk } from './heat'
+import type { HeatWordPrefs } from './heat'
+import { fahrenheitToCelsius, formatTemperature, temperatureField } from './units'
 import { idField } from './ids'
 import { lengthField } from './length'
 import { messageFitForFormat } from './messageFit'
@@ -192,24 +193,25 @@ export interface HeatFitBatch {
  */
 export const SOFTENING_MARGIN_C = 10
 
-export function benchHeatFit(query: HeatFitQuery, settings: EngineSettings = defaultEngineSettings, batch?: HeatFitBatch) {
+/** `words`: the shop's units for the notes (°C and inches when left out); the figures stay in °F, K and inches. */
+export function benchHeatFit(query: HeatFitQuery, settings: EngineSettings = defaultEngineSettings, batch?: HeatFitBatch, words: HeatWordPrefs = celsiusHeatWords) {
   const shift = heatFitShift({
     temperature: query.temperature,
     unit: query.unit,
     waxId: batch ? undefined : query.wax,
     volumetricExpansionPerK: batch?.volumetricExpansionPerK,
     boreDiameterIn: query.bore,
-  }, settings)
+  }, settings, words)
   const notes = [...shift.notes]
   let softening: { softeningPointC: number, marginC: number } | null = null
   if (batch && batch.softeningPointC !== null) {
     const marginC = batch.softeningPointC - fahrenheitToCelsius(shift.temperatureF)
     softening = { softeningPointC: batch.softeningPointC, marginC: roundTo(marginC, 1) }
     if (marginC <= 0) {
-      notes.unshift(`At this temperature batch ${batch.code} is at or past its softening point (${batch.softeningPointC} °C): the blank will lose its shape, and no fit holds.`)
+      notes.unshift(`At this temperature batch ${batch.code} is at or past its softening point of ${formatTemperature(batch.softeningPointC, words)}: the blank will lose its shape, and no fit holds.`)
     }
     else if (marginC <= SOFTENING_MARGIN_C) {
-      notes.unshift(`This is within ${roundTo(marginC, 1)} °C of batch ${batch.code}'s softening point (${batch.softeningPointC} °C): the wax may sag or take the mandrel's mark; keep it cooler.`)
+      notes.unshift(`This is within ${formatTemperatureStep(roundTo(marginC, 1), words)} of batch ${batch.code}'s softening point of ${formatTemperature(batch.softeningPointC, words)}: the wax may sag or take the mandrel's mark; keep it cooler.`)
     }
   }
   return {
@@ -236,6 +238,6 @@ export const heatRiskQuerySchema = z.object({
 })
 export type HeatRiskQuery = z.output<typeof heatRiskQuerySchema>
 
-export function benchHeatRisk(query: HeatRiskQuery, settings: EngineSettings = defaultEngineSettings) {
-  return heatRisk({ forecastHigh: query.high, unit: query.unit, daysInTransit: query.days }, settings)
+export function benchHeatRisk(query: HeatRiskQuery, settings: EngineSettings = defaultEngineSettings, words: HeatWordPrefs = celsiusHeatWords) {
+  return heatRisk({ forecastHigh: query.high, unit: query.unit, daysInTransit: query.days }, settings, words)
 }

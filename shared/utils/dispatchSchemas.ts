@@ -1,6 +1,8 @@
 import { z } from 'zod'
 import { idField } from './ids'
+import { formatCushioning } from './packing'
 import { weightField } from './units'
+import type { UnitPreferences } from './units'
 
 /*
  * Dispatch: what the shipper sends when checking the heat, packing and shipping an order, what a
@@ -12,11 +14,11 @@ import { weightField } from './units'
 export const packingChecklistIds = ['tubes', 'cushioning', 'double_box', 'slip', 'marks'] as const
 export type PackingChecklistId = typeof packingChecklistIds[number]
 
-/** The checklist for one parcel: each line that applies, with its label. */
-export function packingChecklist(options: { cushioningIn: number, doubleBox: boolean }): { id: PackingChecklistId, label: string }[] {
+/** The checklist for one parcel: each line that applies, with its label (depths in the shop's length unit, inches when left out). */
+export function packingChecklist(options: { cushioningIn: number, doubleBox: boolean }, prefs?: Pick<UnitPreferences, 'length' | 'locale'>): { id: PackingChecklistId, label: string }[] {
   return [
     { id: 'tubes', label: 'Each cylinder in its own padded tube' },
-    { id: 'cushioning', label: `At least ${options.cushioningIn} in of cushioning on every side` },
+    { id: 'cushioning', label: `At least ${formatCushioning(options.cushioningIn, prefs)} of cushioning on every side` },
     ...(options.doubleBox ? [{ id: 'double_box' as const, label: 'Inner box inside the outer box, cushioned all round' }] : []),
     { id: 'slip', label: 'Packing slip inside' },
     { id: 'marks', label: 'FRAGILE and this-way-up marks on the outside' },

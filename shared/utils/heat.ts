@@ -1,11 +1,29 @@
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings } from './engineSettings'
-import { celsiusToFahrenheit, fahrenheitToCelsius } from './units'
+import { celsiusToFahrenheit, fahrenheitToCelsius, formatLength, formatTemperature, otherTemperature } from './unitFormat'
+import type { UnitPreferences } from './unitFormat'
 
 export type TemperatureUnit = 'C' | 'F'
 
 /** Delivery-van interiors can reach about 60 °C (shipping guidance). */
 export const PARCEL_INTERIOR_PEAK_C = 60
+
+/**
+ * How the engine's sentences read their figures: temperatures and lengths in the shop's units
+ * (Shop settings) with the other beside, numbers in its locale. The figures themselves stay in °C and
+ * inches; callers without the shop's preferences get °C and inches.
+ */
+export type HeatWordPrefs = Pick<UnitPreferences, 'temperature' | 'length' | 'locale'>
+export const celsiusHeatWords: HeatWordPrefs = { temperature: 'C', length: 'in', locale: 'en-GB' }
+
+/**
+ * A difference of temperature (a step, not a reading) in the shop's unit with the other beside:
+ * `2 °C (3.6 °F)` or `3.6 °F (2 °C)`; a step of 1 °C is a step of 1.8 °F (NIST SP 811 B.8).
+ */
+export function formatTemperatureStep(stepC: number, prefs: Pick<UnitPreferences, 'temperature' | 'locale'> = celsiusHeatWords): string {
+  const inUnit = (unit: TemperatureUnit) => `${new Intl.NumberFormat(prefs.locale, { maximumFractionDigits: 1 }).format(unit === 'C' ? stepC : stepC * 1.8)} °${unit}`
+  return `${inUnit(prefs.temperature)} (${inUnit(otherTemperature(prefs.temperature))})`
+}
 
 export function temperatureInCelsius(value: number, unit: TemperatureUnit): number {
   return unit === 'C' ? value : fahrenheitToCelsius(value)
@@ -57,7 +75,7 @@ export interface HeatFitShift {
 }
 
 /** How far a blank at another temperature sits from where it sat when its fit was judged. */
-export function heatFitShift(input: HeatFitInput, settings: EngineSettings = defaultEngineSettings): HeatFitShift {
+export function heatFitShift(input: HeatFitInput, settings: EngineSettings = defaultEngineSettings, words: HeatWordPrefs = celsiusHeatWords): HeatFitShift {
   const { referenceTemperatureF, taper, waxFormulas } = settings.fit
   let volumetricExpansionPerK = input.volumetricExpansionPerK
   if (volumetricExpansionPerK === undefined) {
@@ -71,7 +89,7 @@ export function heatFitShift(input: HeatFitInput, settings: EngineSettings = def
   const linearExpansionPerK = linearExpansionFromVolumetric(volumetricExpansionPerK)
   const growthIn = boreGrowthIn(boreDiameterIn, linearExpansionPerK, deltaK)
   const notes: string[] = []
-  if (taper.unverified) notes.push(`The taper (${taper.perFootIn} in per foot) is from memory and unverified: measure your mandrel and set it.`)
+  if (taper.unverified) notes.push(`The taper, ${formatLength(taper.perFootIn, words)} per foot, is from memory and unverified: measure your mandrel and set it.`)
   notes.push('The mandrel is taken as not growing; steel expands far less than wax.')
   return {
     referenceTemperatureF,
@@ -105,15 +123,14 @@ export interface HeatRisk {
   reasons: string[]
 }
 
-const formatCelsius = (celsius: number) => `${Math.round(celsius * 10) / 10} °C`
-
 /**
  * Heat risk of a parcel from the forecast high at the destination and the days in transit.
  * Rule: both thresholds (settings) drop by `stricterPerTransitDayC` for every day in transit beyond the
  * first, since every day is another afternoon in a van; at or above the hold threshold the parcel waits,
- * at or above the caution threshold it goes with heat cautions early in the week.
+ * at or above the caution threshold it goes with heat cautions early in the week. The computation is in
+ * °C; the reasons read in the shop's temperature unit (`words`, °C when left out) with the other beside.
  */
-export function heatRisk(input: HeatRiskInput, settings: EngineSettings = defaultEngineSettings): HeatRisk {
+export function heatRisk(input: HeatRiskInput, settings: EngineSettings = defaultEngineSettings, words: Pick<HeatWordPrefs, 'temperature' | 'locale'> = celsiusHeatWords): HeatRisk {
   if (!Number.isFinite(input.forecastHigh)) throw new RangeError('the forecast high must be a number')
   if (!(input.daysInTransit >= 0)) throw new RangeError(`days in transit cannot be negative, got ${input.daysInTransit}`)
   const { cautionHighC, holdHighC, stricterPerTransitDayC } = settings.heat
@@ -123,14 +140,16 @@ export function heatRisk(input: HeatRiskInput, settings: EngineSettings = defaul
   const forecastHighC = temperatureInCelsius(input.forecastHigh, input.unit)
   const level: HeatRiskLevel = forecastHighC >= holdAtC ? 'hold' : forecastHighC >= cautionAtC ? 'caution' : 'ok'
 
+  const temperature = (celsius: number) => formatTemperature(Math.round(celsius * 10) / 10, words)
   const reasons: string[] = []
   const transit = extraDays > 0
-    ? ` (${input.daysInTransit} days in transit lower the thresholds by ${formatCelsius(stricterPerTransitDayC * extraDays)})`
+    ? `, lowered by ${formatTemperatureStep(stricterPerTransitDayC * extraDays, words)} for ${input.daysInTransit} days in transit`
     : ''
-  if (level === 'hold') reasons.push(`Forecast high ${formatCelsius(forecastHighC)} is at or above the hold threshold of ${formatCelsius(holdAtC)}${transit}: hold the parcel until the forecast cools.`)
-  else if (level === 'caution') reasons.push(`Forecast high ${formatCelsius(forecastHighC)} is at or above the caution threshold of ${formatCelsius(cautionAtC)}${transit}: ship early in the week with heat cautions on the slip.`)
-  else reasons.push(`Forecast high ${formatCelsius(forecastHighC)} is below the caution threshold of ${formatCelsius(cautionAtC)}${transit}.`)
-  if (level !== 'ok') reasons.push(`Delivery-van interiors can reach about ${PARCEL_INTERIOR_PEAK_C} °C (shipping guidance), well past the point where wax softens.`)
+  const high = `Forecast high ${temperature(forecastHighC)}`
+  if (level === 'hold') reasons.push(`${high} is at or above the hold threshold of ${temperature(holdAtC)}${transit}: hold the parcel until the forecast cools.`)
+  else if (level === 'caution') reasons.push(`${high} is at or above the caution threshold of ${temperature(cautionAtC)}${transit}: ship early in the week with heat cautions on the slip.`)
+  else reasons.push(`${high} is below the caution threshold of ${temperature(cautionAtC)}${transit}.`)
+  if (level !== 'ok') reasons.push(`By shipping guidance, delivery-van interiors can reach about ${temperature(PARCEL_INTERIOR_PEAK_C)}, well past the point where wax softens.`)
   return { level, forecastHighC, cautionAtC, holdAtC, reasons }
 }
 
@@ -183,6 +202,14 @@ export function nextShippingDay(from: Date | string, allowedWeekdays: readonly n
     if (!fallback || rank < fallback.rank) fallback = { day, rank }
   }
   return new Date(fallback!.day).toISOString().slice(0, 10)
+}
+
+/**
+ * A shipping day (`YYYY-MM-DD`) with its weekday, the way a packer plans the week, in the shop's locale:
+ * `Mon 7 Dec` (en-GB) or `Mon, Dec 7` (en-US). Read in UTC so no time zone moves the day.
+ */
+export function formatShippingDay(isoDay: string, locale = 'en-GB'): string {
+  return new Intl.DateTimeFormat(locale, { weekday: 'short', day: 'numeric', month: 'short', timeZone: 'UTC' }).format(new Date(utcMidnight(isoDay) + DAY_MS / 2))
 }
 
 /** A calendar date `days` after `from` (a `YYYY-MM-DD` string or a Date read in UTC), as `YYYY-MM-DD`. */

@@ -1,7 +1,8 @@
 import { standardBlankDimensions } from './cylinder'
 import { defaultEngineSettings } from './engineSettings'
 import type { EngineSettings, PackingBox, PackingTube } from './engineSettings'
-import { GRAMS_PER_POUND } from './units'
+import { GRAMS_PER_POUND, inchesToMillimetres } from './unitFormat'
+import type { UnitPreferences } from './unitFormat'
 import { countOf } from './wording'
 
 /*
@@ -34,7 +35,24 @@ function fitsIn(load: PackingExtent, space: PackingExtent): boolean {
 const volumeOf = (extent: PackingExtent) => extent[0] * extent[1] * extent[2]
 const insideOf = (box: PackingBox) => extentOf(box.inside.lengthIn, box.inside.widthIn, box.inside.heightIn)
 const outsideOf = (box: PackingBox) => grow(insideOf(box), box.wallIn)
-const describe = (extent: PackingExtent) => extent.map(side => Math.round(side * 100) / 100).join(' × ')
+type LengthPreferences = Pick<UnitPreferences, 'length' | 'locale'>
+
+/** A box's or a content's sides with their unit: `12 × 8 × 6 in`, or `305 × 203 × 152 mm` in a millimetre shop. */
+const describe = (extent: PackingExtent, lengths?: LengthPreferences) => lengths?.length === 'mm'
+  ? `${extent.map(side => Math.round(inchesToMillimetres(side))).join(' × ')} mm`
+  : `${extent.map(side => Math.round(side * 100) / 100).join(' × ')} in`
+
+/**
+ * A depth of cushioning in the shop's length unit with the other beside: `2 in (50 mm)` or `50 mm (2 in)`.
+ * Millimetres go to the nearest 5, as carriers' metric packing guidance gives 2 in as 5 cm; inches to
+ * the nearest eighth, as a packer measures foam.
+ */
+export function formatCushioning(inches: number, prefs: Pick<UnitPreferences, 'length' | 'locale'> = { length: 'in', locale: 'en-GB' }): string {
+  const number = (value: number) => new Intl.NumberFormat(prefs.locale, { maximumFractionDigits: 3 }).format(value)
+  const inch = `${number(Math.round(inches * 8) / 8)} in`
+  const mm = `${number(Math.round(inchesToMillimetres(inches) / 5) * 5)} mm`
+  return prefs.length === 'mm' ? `${mm} (${inch})` : `${inch} (${mm})`
+}
 
 export interface TubeGrid {
   across: number
@@ -82,6 +100,8 @@ export interface PackingRequest {
   fragile?: boolean | undefined
   /** The outer box the packer wants to use (a box id of the settings); the smallest that fits when absent. */
   outerBoxId?: string | undefined
+  /** The shop's length unit for the reasons nothing fits (inches when left out). */
+  lengths?: LengthPreferences | undefined
 }
 
 export interface PackageChoice {
@@ -124,7 +144,7 @@ const wholeGramsUp = (grams: number) => Math.ceil(grams - SLACK)
  * with the cushioning all round; or why nothing does.
  */
 export function choosePackage(request: PackingRequest, settings: EngineSettings = defaultEngineSettings): PackageChoice | NoPackageFits {
-  const { cylinders } = request
+  const { cylinders, lengths } = request
   if (!Number.isInteger(cylinders) || cylinders < 1) throw new RangeError(`expected one or more whole cylinders, got ${cylinders}`)
   const packing = settings.packing
   // The schema already insists on 2 in; this keeps a hand-built settings object honest too.
@@ -168,11 +188,11 @@ export function choosePackage(request: PackingRequest, settings: EngineSettings 
 
   if (!best) {
     const largest = boxes.at(-1)
-    const largestText = largest ? `the largest box is ${describe(insideOf(largest))} in inside` : 'there are no boxes'
+    const largestText = largest ? `the largest box is ${describe(insideOf(largest), lengths)} inside` : 'there are no boxes'
     const smallestContent = contents.map(content => content.contentIn).sort((a, b) => volumeOf(a) - volumeOf(b))[0]
     if (wantedOuter) {
-      const need = smallestContent ? `they need at least ${describe(grow(smallestContent, cushionIn))} in inside` : 'no other box holds them as an inner box'
-      return { ok: false, cylinders, reason: `Box ${wantedOuter.label} (${wantedOuter.id}, ${describe(insideOf(wantedOuter))} in inside) does not take ${countOf(cylinders, 'tube')}${doubleBox ? ' double-boxed' : ''} with ${cushionIn} in of cushioning on every side: ${need}.` }
+      const need = smallestContent ? `they need at least ${describe(grow(smallestContent, cushionIn), lengths)} inside` : 'no other box holds them as an inner box'
+      return { ok: false, cylinders, reason: `Box ${wantedOuter.label} (${wantedOuter.id}, ${describe(insideOf(wantedOuter), lengths)} inside) does not take ${countOf(cylinders, 'tube')}${doubleBox ? ' double-boxed' : ''} with ${formatCushioning(cushionIn, lengths)} of cushioning on every side: ${need}.` }
     }
     if (!smallestContent) {
       return { ok: false, cylinders, reason: `No box fits: no box in the settings holds ${countOf(cylinders, 'tube')} as an inner box; ${largestText}.` }
@@ -180,7 +200,7 @@ export function choosePackage(request: PackingRequest, settings: EngineSettings 
     return {
       ok: false,
       cylinders,
-      reason: `No box fits: ${countOf(cylinders, 'tube')}${doubleBox ? ' double-boxed' : ''} with ${cushionIn} in of cushioning on every side need at least ${describe(grow(smallestContent, cushionIn))} in inside; ${largestText}.`,
+      reason: `No box fits: ${countOf(cylinders, 'tube')}${doubleBox ? ' double-boxed' : ''} with ${formatCushioning(cushionIn, lengths)} of cushioning on every side need at least ${describe(grow(smallestContent, cushionIn), lengths)} inside; ${largestText}.`,
     }
   }
 

@@ -45,8 +45,8 @@ async function uploadTake(code: string) {
   return { status: response.status, body: await response.json() as any }
 }
 
-async function shavedBlank(): Promise<string> {
-  const created = await maker.post('/api/workshop/blanks', { batchId, format: 'two_minute', count: 1, diameterIn: '2.206' })
+async function shavedBlank(batch = batchId): Promise<string> {
+  const created = await maker.post('/api/workshop/blanks', { batchId: batch, format: 'two_minute', count: 1, diameterIn: '2.206' })
   expect(created.status, JSON.stringify(created.body)).toBe(201)
   const code = created.body.codes[0] as string
   expect((await maker.post(`/api/workshop/blanks/${code}/reaming`, { overhangBeforeIn: '3/16', overhangAfterIn: '7/16', reamings: 4, roomTemperatureF: 74 })).status).toBe(201)
@@ -54,8 +54,8 @@ async function shavedBlank(): Promise<string> {
   return code
 }
 
-async function passedBlank(): Promise<string> {
-  const code = await shavedBlank()
+async function passedBlank(batch = batchId): Promise<string> {
+  const code = await shavedBlank(batch)
   const tested = await uploadTake(code)
   expect(tested.status, JSON.stringify(tested.body)).toBe(201)
   expect(tested.body.finalVerdict).toBe('pass')
@@ -78,10 +78,10 @@ async function productForm(id: number) {
   return answer.body as { product: { stock: number, stockSource: string }, blankStock: { source: string, register: number, free: number, promised: number, difference: number } }
 }
 
-async function newProduct(stockSource?: 'register' | 'manual', stock = 0) {
+async function newProduct(stockSource?: 'register' | 'manual', stock = 0, waxFormulaId = 'beeswax_test') {
   const answer = await maker.post('/api/workshop/products', {
     slug: `register-blank-${Date.now()}-${++counter}`, title: `Beeswax practice blank ${counter}`, kind: 'blank', format: 'two_minute',
-    material: 'beeswax blend', priceMinor: 1500, stock, waxFormulaId: 'beeswax_test', ...(stockSource ? { stockSource } : {}),
+    material: 'beeswax blend', priceMinor: 1500, stock, waxFormulaId, ...(stockSource ? { stockSource } : {}),
   })
   expect(answer.status, JSON.stringify(answer.body)).toBe(201)
   return answer.body as { id: number, slug: string, stock: number, stockSource: string }
@@ -105,7 +105,7 @@ beforeAll(async () => {
   // A wax formula of this test's own, after the shop's others (the first stays the shop's default).
   const engine = await maker.get('/api/workshop/settings/engine')
   const figures = engine.body.settings
-  figures.fit.waxFormulas = [...figures.fit.waxFormulas, { id: 'beeswax_test', label: 'Beeswax test', volumetricExpansionPerK: 700e-6 }]
+  figures.fit.waxFormulas = [...figures.fit.waxFormulas, { id: 'beeswax_test', label: 'Beeswax test', volumetricExpansionPerK: 700e-6 }, { id: 'beeswax_test_b', label: 'Beeswax test B', volumetricExpansionPerK: 720e-6 }]
   const saved = await maker.put('/api/workshop/settings/engine', figures)
   expect(saved.status, JSON.stringify(saved.body)).toBe(200)
   batchCode = `BS-26-${Date.now() % 10_000}`
@@ -217,6 +217,21 @@ describe('a blank product counted from the register', () => {
     expect(packed.body.blanks).toEqual([fresh])
   })
 
+  it('a blank packed for an order still to ship cannot be scrapped or worked on: 409 naming the order, and it stays reserved for the parcel', async () => {
+    const code = await passedBlank()
+    const number = await paidOrder(product.slug)
+    const packed = await shipper.post(`/api/dispatch/${number}/pack`, { checklist: fullChecklist })
+    expect(packed.status, JSON.stringify(packed.body)).toBe(200)
+    expect(packed.body.blanks).toEqual([code])
+    const scrapped = await maker.post(`/api/workshop/blanks/${code}/scrap`, { reason: 'Looks chipped.' })
+    expect(scrapped.status).toBe(409)
+    expect(scrapped.body.message).toContain(`order ${number}`)
+    const refit = await maker.post(`/api/workshop/blanks/${code}/reaming`, { overhangBeforeIn: '7/16', overhangAfterIn: '1/2', reamings: 1, roomTemperatureF: 74, refit: true })
+    expect(refit.status).toBe(409)
+    expect(await blankOf(code)).toMatchObject({ state: 'reserved', location: 'packing table' })
+    expect((await maker.get(`/api/workshop/orders/${number}`)).body.items[0].blankCodes).toEqual([code])
+  })
+
   it('a manual count keeps what the maker typed, through register changes, and shows its difference to the register', async () => {
     const manual = await newProduct('manual', 7)
     expect(manual.stock).toBe(7)
@@ -229,6 +244,22 @@ describe('a blank product counted from the register', () => {
     const switched = await maker.request(`/api/workshop/products/${manual.id}`, { method: 'PATCH', body: { stockSource: 'register' } })
     expect(switched.status, JSON.stringify(switched.body)).toBe(200)
     expect(switched.body.stock).toBe(form.blankStock.register)
+  })
+})
+
+describe('a batch\'s wax formula, changed, moves its blanks to the other pool at once', () => {
+  it('the catalogue\'s stock of both formulas changes on the next request, not at the next sweep', async () => {
+    const productA = await newProduct('register')
+    const productB = await newProduct('register', 0, 'beeswax_test_b')
+    const batch = await maker.post('/api/workshop/batches', { code: `BS-26-B${Date.now() % 10_000}`, formula: 'beeswax 55 / stearic acid 45', pourDate: '2026-09-02', volumetricExpansionPerK: 0.00072, waxFormulaId: 'beeswax_test_b' })
+    expect(batch.status, JSON.stringify(batch.body)).toBe(201)
+    await passedBlank(batch.body.id)
+    const before = (await productForm(productA.id)).product.stock
+    expect((await productForm(productB.id)).product.stock).toBe(1)
+    const changed = await maker.request(`/api/workshop/batches/${batch.body.id}`, { method: 'PATCH', body: { waxFormulaId: 'beeswax_test' } })
+    expect(changed.status, JSON.stringify(changed.body)).toBe(200)
+    expect((await productForm(productA.id)).product.stock).toBe(before + 1)
+    expect((await productForm(productB.id)).product.stock).toBe(0)
   })
 })
 

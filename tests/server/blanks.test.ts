@@ -582,7 +582,8 @@ describe('heat and fit from a wax batch: GET /api/workshop/bench/heat-fit?batchI
 
     const warm = await maker.get(`/api/workshop/bench/heat-fit?temperature=55&unit=C&batchId=${batchId}`)
     expect(warm.body.softening).toEqual({ softeningPointC: 62, marginC: 7 })
-    expect(warm.body.notes[0]).toMatch(/within 7 °C of batch T-26-01's softening point \(62 °C\)/)
+    // In the shop's unit (°F by default) with °C beside: a 7 °C step is 12.6 °F, 62 °C is 143.6 °F (NIST SP 811 B.8).
+    expect(warm.body.notes[0]).toContain('within 12.6 °F (7 °C) of batch T-26-01\'s softening point of 143.6 °F (62 °C)')
     const hot = await maker.get(`/api/workshop/bench/heat-fit?temperature=65&unit=C&batchId=${batchId}`)
     expect(hot.body.notes[0]).toMatch(/at or past its softening point/)
   })

@@ -290,7 +290,9 @@ describe('a personal message from checkout to approval', () => {
     const detail = await maker.get(`/api/workshop/tickets/${ticket.id}`)
     expect(detail.body.message).toMatchObject({ wishedDate: wished, fit: { verdict: 'fits' } })
     await waitFor(async () => mailsTo(account('collector').email, /personal message is in the workshop/).length > 0, 10_000, 'the order-received mail')
-    expect(mailsTo(account('collector').email, /personal message is in the workshop/)[0]!.text).toContain(wished)
+    // The wished-for date in the shop's locale (en-US by default): "Thursday, December 24, 2026".
+    const wishedInMail = new Intl.DateTimeFormat('en-US', { dateStyle: 'full', timeZone: 'UTC' }).format(new Date(`${wished}T12:00:00Z`))
+    expect(mailsTo(account('collector').email, /personal message is in the workshop/)[0]!.text.replace(/\s+/g, ' ')).toContain(wishedInMail)
 
     // A proof only after the cut.
     const early = await upload(maker, `/api/workshop/tickets/${ticket.id}/proof`, { name: 'proof.wav', bytes: toneWav(1) })

@@ -202,6 +202,8 @@ describe('the whole path: heat check, pack, ship, delivered', () => {
     // Three cylinders: a 6 × 6 × 6 inner box in a 12 × 12 × 12 outer (hand calculation in tests/unit/dispatch-engine.test.ts).
     expect(detail.body.packing).toMatchObject({ ok: true, boxId: 'box-12x12x12', innerBox: '6 × 6 × 6 in', actualWeightG: 1025, billableWeightG: 6222, cushioningIn: 2.8 })
     expect(detail.body.checklist.map((line: any) => line.id)).toEqual(fullChecklist)
+    // In the shop's length unit (inches by default), millimetres beside: 2 in ≈ 50 mm (carriers' metric guidance: 5 cm).
+    expect(detail.body.checklist.find((line: any) => line.id === 'cushioning').label).toBe('At least 2 in (50 mm) of cushioning on every side')
     expect(detail.body.carriers.map((c: any) => c.id)).toEqual(['post', 'courier'])
     expect(detail.body.temperatureUnit).toBe('F')
     expect(detail.body.boxes.length).toBeGreaterThan(5)
@@ -439,7 +441,8 @@ describe('breakage claims', () => {
     const late = await multipart(new Client(), `/api/orders/${old}/claims?t=${guestToken(old)}`, [{ field: 'photos', name: 'a.png', bytes: png }], { description: 'It was cracked when I opened it.' })
     expect(late.status).toBe(409)
     expect(late.body.data.lastDate).toBe(lastDate)
-    expect(late.body.message).toContain(lastDate)
+    // The message writes the day in the shop's locale (en-US by default: "November 30, 2026"); the data keeps the ISO day.
+    expect(late.body.message).toContain(new Intl.DateTimeFormat('en-US', { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${lastDate}T12:00:00Z`)))
     expect((await multipart(new Client(), `/api/orders/${old}/claims?t=not-the-token`, [{ field: 'photos', name: 'a.png', bytes: png }], { description: 'It was cracked when I opened it.' })).status).toBe(404)
   })
 

@@ -5,6 +5,7 @@ import { url } from '@nuxt/test-utils/e2e'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { makeSurfaceWav } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { defaultUnitPreferences } from '../../shared/utils/unitFormat'
 import { Client, signedIn, useTestServer, waitFor } from './harness'
 
 // The mails an order's life sends, read from the fake inbox: each arrives once however often the change
@@ -38,6 +39,8 @@ async function fake(path: string, body?: unknown) {
   return await response.json() as any
 }
 
+/** The due date after the shop's default lead time of 10 days, as a locale writes a long date. */
+const dueIn = (locale: string) => new Date(Date.now() + 10 * 86_400_000).toLocaleDateString(locale, { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' })
 const mailsTo = (to: string, subject: string) => env.fake.list().filter(m => m.to.includes(to) && m.subject.includes(subject))
 /** Lets the mail loop make several more passes, so a second copy would have arrived. */
 const settle = () => new Promise(resolve => setTimeout(resolve, 800))
@@ -88,13 +91,31 @@ describe('the maker hears of every paid order, once', () => {
     expect(mail.subject).toBe(`Paid order ${placed.orderNumber}: 2 cylinders to make`)
     expect(mail.text).toContain(`2 × ${made.title} — due `)
     expect(mail.text).toContain(`1 × ${stock.title}`)
-    // Due after the shop's lead time (10 days by default).
-    const due = new Date(Date.now() + 10 * 86_400_000).toLocaleDateString('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' })
-    expect(mail.text).toContain(due)
+    // Due after the shop's lead time (10 days by default), in the shop's locale (en-US unless the maker chose another).
+    expect(mail.text).toContain(dueIn(defaultUnitPreferences.locale))
     await fake(`/_fake/events/${eventId}/duplicate`, { times: 3 })
     await waitFor(async () => (await fake(`/_fake/deliveries?event=${eventId}`)).data.filter((d: any) => d.status === 200).length >= 4, 10_000, 'the duplicates')
     await settle()
     expect(mailsTo(makerEmail, `Paid order ${placed.orderNumber}`)).toHaveLength(1)
+  })
+
+  it('writes its dates in the locale the maker chooses in Shop settings, from the next mail on', async () => {
+    const before = (await maker.get('/api/shop/units')).body
+    expect(before.locale).toBe(defaultUnitPreferences.locale)
+    const switched = await maker.put('/api/workshop/settings/units', { ...before, locale: 'en-GB' })
+    expect(switched.status, JSON.stringify(switched.body)).toBe(200)
+    try {
+      const made = await product(true)
+      const placed = await checkout([{ slug: made.slug, qty: 1 }])
+      await pay(placed)
+      const mail = await waitFor(async () => mailsTo(makerEmail, `Paid order ${placed.orderNumber}`)[0], 10_000, 'the maker\'s mail')
+      // en-GB writes the day before the month: "14 December 2026"; en-US "December 14, 2026".
+      expect(mail.text).toContain(dueIn('en-GB'))
+      expect(mail.text).not.toContain(dueIn('en-US'))
+    }
+    finally {
+      expect((await maker.put('/api/workshop/settings/units', before)).status).toBe(200)
+    }
   })
 
   it('a stock-only order goes straight to packing, and the maker is told it is to pack', async () => {
@@ -126,7 +147,8 @@ describe('the customer hears when a cylinder made for them is cut', () => {
     const mail = await waitFor(async () => mailsTo(placed.email, 'has been cut')[0], 10_000, 'the cut mail')
     expect(mail.subject).toBe(`Your cylinder has been cut (order ${placed.orderNumber})`)
     expect(mail.text).toContain(made.title)
-    expect(mail.text.replace(/\s+/g, ' ')).toMatch(/ready for dispatch by \w+day,? \d+ \w+ \d{4}/)
+    // In the shop's default locale (en-US): "Monday, December 14, 2026".
+    expect(mail.text.replace(/\s+/g, ' ')).toMatch(/ready for dispatch by \w+day, \w+ \d{1,2}, \d{4}/)
 
     // Cut again after a recut: no second mail.
     expect((await maker.post(`/api/workshop/tickets/${ticket.id}/stage`, { to: 'recut', note: 'A scratch on the last turns.' })).status).toBe(200)

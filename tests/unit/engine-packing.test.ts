@@ -77,7 +77,16 @@ describe('choosePackage (carrier packing guidance: ≥ 2 in cushioning on every 
     const choice = choosePackage({ cylinders: 1 }, settings)
     expect(choice.ok).toBe(false)
     if (choice.ok) return
-    expect(choice.reason).toMatch(/^No box fits: 1 tube double-boxed with 2 in of cushioning on every side need at least .* inside; the largest box is 8 × 8 × 8 in inside\.$/)
+    expect(choice.reason).toMatch(/^No box fits: 1 tube double-boxed with 2 in \(50 mm\) of cushioning on every side need at least .* in inside; the largest box is 8 × 8 × 8 in inside\.$/)
+  })
+
+  it('says it in millimetres in a millimetre shop (1 in = 25.4 mm exactly, NIST SP 811 B.8)', () => {
+    const settings = engineSettingsSchema.parse({ packing: { boxes: [box('small', 6, 4, 4), box('medium', 8, 8, 8)] } })
+    const choice = choosePackage({ cylinders: 1, lengths: { length: 'mm', locale: 'en-GB' } }, settings)
+    expect(choice.ok).toBe(false)
+    if (choice.ok) return
+    // 8 in = 203.2 mm, shown to the whole millimetre; the cushioning to the nearest 5 mm as carriers' metric guidance gives it.
+    expect(choice.reason).toMatch(/^No box fits: 1 tube double-boxed with 50 mm \(2 in\) of cushioning on every side need at least \d+ × \d+ × \d+ mm inside; the largest box is 203 × 203 × 203 mm inside\.$/)
   })
 
   it('sends more cylinders than one parcel takes back to be split', () => {

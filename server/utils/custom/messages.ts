@@ -122,6 +122,8 @@ export async function queueMessagesReceivedMail(tx: Db, order: Pick<OrderRow, 'i
     .leftJoin(tickets, eq(tickets.orderItemId, orderItems.id))
     .where(eq(orderItems.orderId, orderId)).orderBy(asc(customMessages.id))
   if (rows.length === 0) return
+  const locale = await mailLocale(tx)
+  const day = (isoDate: string) => mailDate(isoDate, locale)
   await queueMail(tx, {
     to: order.email,
     subject: `Your personal message is in the workshop — order ${order.number}`,
@@ -129,7 +131,7 @@ export async function queueMessagesReceivedMail(tx: Db, order: Pick<OrderRow, 'i
     content: {
       heading: 'We have your personal message',
       paragraphs: [
-        ...rows.map(({ message, dueDate }) => `${message.occasion} for ${message.recipientName}: wished for by ${message.wishedDate}${dueDate && dueDate !== message.wishedDate ? ` (the proof will be ready by ${dueDate})` : ''}.`),
+        ...rows.map(({ message, dueDate }) => `${message.occasion} for ${message.recipientName}: wished for by ${day(message.wishedDate)}${dueDate && dueDate !== message.wishedDate ? ` (the proof will be ready by ${day(dueDate)})` : ''}.`),
         'The maker cuts your message on a tested blank and sends you a proof to hear. You approve it, or ask for a re-cut with a note, from your order page; the record is finished only once you have approved it.',
       ],
       action: { label: 'Follow your order', url: orderLink(order.number, order.userId !== null) },

@@ -71,7 +71,8 @@ export async function createClaim(event: H3Event, number: string, token: string 
   if (order.status !== 'delivered') throw dispatchStateError(order.number, order.status, 'a breakage can be reported once the parcel has been delivered')
   const lastDate = (await claimLastDate(db, order, settings.dispatch.claimWindowDays))!
   if (dispatchToday() > lastDate) {
-    throw conflictError(`Breakages on order ${order.number} could be reported until ${lastDate} (${settings.dispatch.claimWindowDays} days after delivery); please write to the workshop.`, { lastDate })
+    const { locale } = await getSetting('units', db)
+    throw conflictError(`Breakages on order ${order.number} could be reported until ${formatDay(lastDate, locale, 'long')} (${settings.dispatch.claimWindowDays} days after delivery); please write to the workshop.`, { lastDate })
   }
   const form = await readClaimPhotoForm(event, 'photos', claimLimits.photosMax)
   const parsed = claimFormSchema.safeParse(form.fields)

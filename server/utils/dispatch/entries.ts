@@ -1,6 +1,7 @@
 import { asc, desc, eq, inArray } from 'drizzle-orm'
 import { blanks, customMessages, heatChecks, orderEvents, orderItems, orders, shipments, tickets } from '../../db/schema'
 import type { EngineSettings } from '#shared/utils/engineSettings'
+import type { UnitPreferences } from '#shared/utils/units'
 import type { Database, Transaction } from '../platform/db'
 
 type Db = Database | Transaction
@@ -17,18 +18,18 @@ export function dispatchToday(now = new Date()): string {
 }
 
 /** The engine's packing for one parcel of `count` cylinders, as the queue shows it. */
-export function parcelPacking(count: number, settings: EngineSettings) {
-  const choice = choosePackage({ cylinders: count }, settings)
+export function parcelPacking(count: number, settings: EngineSettings, lengths?: Pick<UnitPreferences, 'length' | 'locale'>) {
+  const choice = choosePackage({ cylinders: count, lengths }, settings)
   return choice.ok
     ? { cylinders: count, ok: true as const, tube: choice.tube.label, innerBox: choice.innerBox?.label ?? null, outerBox: choice.outerBox.label, outsideIn: choice.outsideIn, actualWeightG: choice.actualWeightG, billableWeightG: choice.billableWeightG }
     : { cylinders: count, ok: false as const, reason: choice.reason }
 }
 
 /** Full parcels first, then the rest: the engine's smallest box for each. */
-export function orderParcels(cylinders: number, settings: EngineSettings) {
+export function orderParcels(cylinders: number, settings: EngineSettings, lengths?: Pick<UnitPreferences, 'length' | 'locale'>) {
   const perParcel = settings.packing.cylindersPerParcel
   return Array.from({ length: parcelsForCylinders(cylinders, settings) }, (_, index) => Math.min(perParcel, cylinders - index * perParcel))
-    .map(count => parcelPacking(count, settings))
+    .map(count => parcelPacking(count, settings, lengths))
 }
 
 /** The newest heat check of each order, by order id. */
@@ -61,6 +62,8 @@ export function heatSummary(check: HeatCheckRow | undefined) {
 export async function dispatchEntries(db: Db, rows: DispatchOrderRow[], settings: EngineSettings) {
   const ids = rows.map(row => row.id)
   if (ids.length === 0) return []
+  // Reasons a parcel has no box speak the shop's length unit.
+  const units = await getSetting('units', db)
   const items = await db.select({ id: orderItems.id, orderId: orderItems.orderId, title: orderItems.title, format: orderItems.format, quantity: orderItems.quantity })
     .from(orderItems).where(inArray(orderItems.orderId, ids)).orderBy(asc(orderItems.id))
   const ticketRows = await db.select({ orderId: tickets.orderId, orderItemId: tickets.orderItemId, unit: tickets.unit, dueDate: tickets.dueDate, blankCode: blanks.code })
@@ -93,7 +96,7 @@ export async function dispatchEntries(db: Db, rows: DispatchOrderRow[], settings
       zone: zones.get(order.zone) ?? order.zone,
       contents,
       cylinders,
-      parcels: cylinders > 0 ? orderParcels(cylinders, settings) : [],
+      parcels: cylinders > 0 ? orderParcels(cylinders, settings, units) : [],
       heat: heatSummary(heat.get(order.id)),
       shipment: shipment
         ? { carrier: shipment.carrier, carrierLabel: shipment.carrier ? carrierLabel(settings, shipment.carrier) : null, trackingNumber: shipment.trackingNumber, packedAt: shipment.packedAt, shippedAt: shipment.shippedAt, deliveredAt: shipment.deliveredAt }

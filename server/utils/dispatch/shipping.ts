@@ -8,7 +8,9 @@ type OrderRow = Awaited<ReturnType<typeof lockDispatchOrder>>
 async function refuseWhileHeld(tx: Transaction, order: OrderRow, action: string) {
   const check = (await newestHeatChecks(tx, [order.id])).get(order.id)
   if (heatHoldsOrder(check)) {
-    throw conflictError(`Order ${order.number} is held back by the heat check of ${check!.checkedAt.toISOString().slice(0, 10)}: ${action} on or after ${check!.nextShipDate}, or check the heat again.`, { status: order.status, nextShipDate: check!.nextShipDate })
+    // The days in the shop's locale (Shop settings); the ISO day stays in the data for a program.
+    const { locale } = await getSetting('units', tx)
+    throw conflictError(`Order ${order.number} is held back by the heat check of ${formatDay(check!.checkedAt, locale)}: ${action} on or after ${formatShippingDay(check!.nextShipDate, locale)}, or check the heat again.`, { status: order.status, nextShipDate: check!.nextShipDate })
   }
 }
 
@@ -24,11 +26,12 @@ async function cylinderCount(tx: Transaction, orderId: number): Promise<number> 
  */
 export async function packOrder(db: Database, number: string, input: DispatchPackInput, userId: number) {
   const settings = await getSetting('engine', db)
+  const units = await getSetting('units', db)
   return await db.transaction(async (tx) => {
     const order = await lockDispatchOrder(tx, number)
     if (order.status !== 'ready_to_pack') throw dispatchStateError(order.number, order.status, 'only an order ready to pack can be packed')
     await refuseWhileHeld(tx, order, 'pack it')
-    const packing = orderPacking(await cylinderCount(tx, order.id), settings, input.boxId)
+    const packing = orderPacking(await cylinderCount(tx, order.id), settings, input.boxId, units)
     if (!packing.ok) throw fieldError(input.boxId === undefined ? 'checklist' : 'boxId', packing.reason)
     const missing = orderChecklist(packing, settings).filter(line => !input.checklist.includes(line.id))
     if (missing.length) throw fieldError('checklist', `tick every line before packing; missing: ${missing.map(line => line.id).join(', ')}`)

@@ -125,6 +125,13 @@ export function checkClientFileName(name: string | undefined) {
   if (/[\u0000-\u001f\u007f]/.test(given)) throw fieldError('file', 'the file name contains control characters; rename the file. Nothing was stored.')
 }
 
+export interface UploadFormOptions {
+  /** With it, a missing file is a 400 naming `file` with this text. */
+  required?: string
+  /** Stops the reading: the rest of the body is dropped unread. */
+  signal?: AbortSignal
+}
+
 export interface UploadedFilePart {
   data: Buffer
   /** The name the client gave, checked by `checkClientFileName`; label it with `fileLabel`. */
@@ -140,12 +147,12 @@ export interface UploadedFilePart {
  * free of control characters (`rejectControlCharacters`, as for JSON bodies). With `required` a missing
  * file is a 400 naming `file` with that text; without it `file` is null. Each refusal is a 4xx naming its field.
  */
-export async function readUploadForm(event: H3Event, purpose: UploadPurpose, options: { required?: string } = {}): Promise<{ file: UploadedFilePart | null, fields: Record<string, string> }> {
+export async function readUploadForm(event: H3Event, purpose: UploadPurpose, options: UploadFormOptions = {}): Promise<{ file: UploadedFilePart | null, fields: Record<string, string> }> {
   checkDeclaredSize(event, purpose)
   if (!/^multipart\/form-data/i.test(getRequestHeader(event, 'content-type') ?? '')) {
     throw fieldError('file', 'send the file as multipart/form-data in a field named "file"')
   }
-  const { file, fileParts, fields } = await streamMultipart(event, purpose)
+  const { file, fileParts, fields } = await streamMultipart(event, purpose, options)
   if (fileParts > 1) throw fieldError('file', 'send one file at a time; nothing was stored')
   // The text fields get the check every JSON body gets, before any schema reads them.
   rejectControlCharacters(fields)
@@ -158,6 +165,28 @@ export async function readUploadForm(event: H3Event, purpose: UploadPurpose, opt
   return { file, fields }
 }
 
+/**
+ * `readUploadForm` with the body read while `check` runs (the role check, a settings look-up), so the
+ * upload does not wait on the database and the client is not held back meanwhile. The check's refusal
+ * comes first (a visitor gets 401, not a complaint about the file): the body is then dropped unread,
+ * having been kept only for the few milliseconds the check took.
+ */
+export async function readUploadFormDuring<T>(event: H3Event, purpose: UploadPurpose, check: Promise<T>, options: Omit<UploadFormOptions, 'signal'> = {}): Promise<{ file: UploadedFilePart | null, fields: Record<string, string>, checked: T }> {
+  const stop = new AbortController()
+  const reading = readUploadForm(event, purpose, { ...options, signal: stop.signal })
+  // Its refusal is given below, after the check's; until then it must not count as unhandled.
+  reading.catch(() => {})
+  let checked: T
+  try {
+    checked = await check
+  }
+  catch (error) {
+    stop.abort()
+    throw error
+  }
+  return { ...(await reading), checked }
+}
+
 // A text field beside the file (notes, rpm, a few ids) is short; a longer one is refused, not cut.
 const MAX_TEXT_FIELD_BYTES = 256 * 1024
 
@@ -166,9 +195,11 @@ const MAX_TEXT_FIELD_BYTES = 256 * 1024
  * of at most the purpose's limit (413 the moment it would pass); other file parts are counted and discarded; text
  * fields are kept. Rejects with a 4xx naming the field; once it has rejected, the rest of the body is drained.
  */
-function streamMultipart(event: H3Event, purpose: UploadPurpose): Promise<{ file: UploadedFilePart | null, fileParts: number, fields: Record<string, string> }> {
+function streamMultipart(event: H3Event, purpose: UploadPurpose, { signal }: UploadFormOptions): Promise<{ file: UploadedFilePart | null, fileParts: number, fields: Record<string, string> }> {
   const request = event.node.req
   const maxBytes = uploadLimit(purpose).maxBytes
+  // The file cannot be longer than the body, whose declared size checkDeclaredSize has bounded.
+  const declaredBytes = Number(getRequestHeader(event, 'content-length'))
   return new Promise((resolvePromise, reject) => {
     let parser: Busboy.Busboy
     try {
@@ -206,15 +237,20 @@ function streamMultipart(event: H3Event, purpose: UploadPurpose): Promise<{ file
         stream.resume()
         return
       }
-      const chunks: Buffer[] = []
+      // One buffer of the body's declared size (its pages are only touched as bytes arrive), each piece copied
+      // into it as it comes: the file is copied once, while the rest is still on its way.
+      let data: Buffer | undefined
       let size = 0
       stream.on('data', (chunk: Buffer) => {
+        if (settled) return
+        data ??= Buffer.alloc(Math.min(maxBytes, declaredBytes))
+        if (size + chunk.byteLength > data.byteLength) return fail(tooLarge(purpose))
+        chunk.copy(data, size)
         size += chunk.byteLength
-        chunks.push(chunk)
       })
       stream.on('limit', () => fail(tooLarge(purpose)))
       stream.on('end', () => {
-        if (!settled) file = { data: chunks.length === 1 ? chunks[0]! : Buffer.concat(chunks, size), filename }
+        if (!settled) file = { data: data ? data.subarray(0, size) : Buffer.alloc(0), filename }
       })
     })
     parser.on('partsLimit', () => fail(fieldError('file', 'too many parts in the form; nothing was stored')))
@@ -226,6 +262,7 @@ function streamMultipart(event: H3Event, purpose: UploadPurpose): Promise<{ file
       resolvePromise({ file, fileParts, fields })
     })
     request.on('aborted', () => fail(createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'file: the upload was cut short; nothing was stored.' })))
+    signal?.addEventListener('abort', () => fail(createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'file: not read; nothing was stored.' })), { once: true })
     request.pipe(parser)
   })
 }

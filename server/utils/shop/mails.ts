@@ -13,8 +13,18 @@ import type { Database, Transaction } from '../platform/db'
 type Db = Database | Transaction
 
 const site = () => String(useRuntimeConfig().siteUrl)
-/** "Tuesday 14 April 2026" for a date kept as 2026-04-14. */
-const longDate = (isoDate: string) => new Date(`${isoDate}T12:00:00Z`).toLocaleDateString('en-GB', { weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' })
+/**
+ * A date kept as 2026-04-14 the way a mail writes it, in the shop's locale: "Tuesday, April 14, 2026"
+ * (en-US) or "Tuesday 14 April 2026" (en-GB). Read at noon UTC so no time zone moves the day.
+ */
+export function mailDate(isoDate: string, locale: string): string {
+  return new Intl.DateTimeFormat(locale, { dateStyle: 'full', timeZone: 'UTC' }).format(new Date(`${isoDate}T12:00:00Z`))
+}
+
+/** The shop's locale (Shop settings) for the dates of a mail, read in the mail's own transaction. */
+export async function mailLocale(tx: Db): Promise<string> {
+  return (await getSetting('units', tx)).locale
+}
 
 /**
  * To every maker, once per paid order: the cylinders to cut with their due dates, or, for an order of
@@ -29,6 +39,8 @@ export async function queueMakerPaidOrderMail(tx: Db, orderId: number) {
   for (const ticket of due) {
     if (ticket.dueDate && (!dueOf.has(ticket.orderItemId) || ticket.dueDate < dueOf.get(ticket.orderItemId)!)) dueOf.set(ticket.orderItemId, ticket.dueDate)
   }
+  const locale = await mailLocale(tx)
+  const longDate = (isoDate: string) => mailDate(isoDate, locale)
   const toMake = items.filter(item => item.madeToOrder || item.kind === 'custom')
   const toPack = items.filter(item => !toMake.includes(item))
   const makes = toMake.length > 0
@@ -68,7 +80,7 @@ export async function queueCylinderCutMail(tx: Db, ticket: { orderId: number, or
   const [order] = await tx.select().from(orders).where(eq(orders.id, ticket.orderId))
   const [item] = await tx.select().from(orderItems).where(eq(orderItems.id, ticket.orderItemId))
   if (!order || !item) return
-  const dispatch = ticket.dueDate ? `It is due to be ready for dispatch by ${longDate(ticket.dueDate)}; we tell you when the parcel leaves.` : 'We tell you when the parcel leaves.'
+  const dispatch = ticket.dueDate ? `It is due to be ready for dispatch by ${mailDate(ticket.dueDate, await mailLocale(tx))}; we tell you when the parcel leaves.` : 'We tell you when the parcel leaves.'
   await queueMail(tx, {
     to: order.email,
     subject: `Your cylinder has been cut (order ${order.number})`,

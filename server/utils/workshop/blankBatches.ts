@@ -49,3 +49,24 @@ export function checkCastingCounts(batch: WaxBatchRow, patch: { castCount?: numb
     throw fieldError(patch.rejectedAtCasting !== undefined ? 'rejectedAtCasting' : 'castCount', `rejectedAtCasting (${rejected}) cannot be more than castCount (${cast}, the blanks cast)`)
   }
 }
+
+/**
+ * Corrects a batch with only the fields sent (409 naming `code` when the new code is taken). A change
+ * of wax formula moves the batch's blanks to another pool of the register, so the stock of blank
+ * products counted from it is counted again in the same transaction: the catalogue shows it at once.
+ */
+export async function updateWaxBatch(db: Database, id: number, patch: Partial<typeof waxBatches.$inferInsert>): Promise<WaxBatchRow> {
+  try {
+    return await db.transaction(async (tx) => {
+      const [before] = await tx.select({ waxFormulaId: waxBatches.waxFormulaId }).from(waxBatches).where(eq(waxBatches.id, id)).for('update')
+      if (!before) throw createError({ statusCode: 404, statusMessage: 'Not found', message: `No wax batch has the id ${id}.` })
+      const [batch] = await tx.update(waxBatches).set(patch).where(eq(waxBatches.id, id)).returning()
+      if (patch.waxFormulaId !== undefined && patch.waxFormulaId !== before.waxFormulaId) await refreshBlankStock(tx)
+      return batch!
+    })
+  }
+  catch (error) {
+    if (patch.code && isWaxBatchCodeTaken(error)) throw waxBatchCodeTaken(patch.code)
+    throw error
+  }
+}

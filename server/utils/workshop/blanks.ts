@@ -54,11 +54,40 @@ export async function blankHolderOf(db: Database | Transaction, blankId: number,
   return holder ?? null
 }
 
+/**
+ * The statuses of an order whose tied blanks are no longer held for a parcel: gone with it (shipped,
+ * delivered) or never to go (cancelled, refunded), so the maker may deal with the blank again.
+ */
+const blankReleasingStatuses = ['shipped', 'delivered', 'cancelled', 'refunded'] as const
+
+/**
+ * The order a blank was tied to at packing (`order_item_blanks`), while that order is still to ship:
+ * the blank is the parcel's, so nothing but shipping may move it. Null when no such order holds it.
+ */
+export async function blankOrderTieOf(db: Database | Transaction, blankId: number): Promise<{ orderNumber: string } | null> {
+  const [tie] = await db.select({ orderNumber: orders.number }).from(orderItemBlanks).innerJoin(orders, eq(orders.id, orderItemBlanks.orderId))
+    .where(and(eq(orderItemBlanks.blankId, blankId), sql`${orders.status} not in (${sql.join(blankReleasingStatuses.map(status => sql`${status}`), sql`, `)})`)).limit(1)
+  return tie ?? null
+}
+
+function tiedToOrderError(blank: BlankRow, orderNumber: string, action: string) {
+  return createError({
+    statusCode: 409,
+    statusMessage: 'Conflict',
+    message: `${blank.code}: this blank is packed for order ${orderNumber}, which has not shipped; it cannot be ${action} while the parcel holds it.`,
+    data: { state: blank.state, orderNumber },
+  })
+}
+
 /** 409 with the life-cycle table's sentence when `action` is not allowed for the blank now. */
 export async function assertBlankAction(db: Database | Transaction, blank: BlankRow, action: BlankAction): Promise<void> {
   const holder = blankTransitions[action].unheldOnly ? await blankHolderOf(db, blank.id) : null
   const refusal = blankActionRefusal(action, blank.state, holder)
   if (refusal) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${blank.code}: ${refusal}`, data: { state: blank.state, action } })
+  if (action !== 'ship') {
+    const tie = await blankOrderTieOf(db, blank.id)
+    if (tie) throw tiedToOrderError(blank, tie.orderNumber, action === 'scrap' ? 'scrapped' : 'worked on')
+  }
 }
 
 export async function writeBlankLog(tx: Transaction, blankId: number, kind: BlankLogKind, data: object, byUserId: number | null, at?: Date) {
@@ -86,10 +115,18 @@ export interface BlankMove {
  * reason. Conditional: it happens only while the blank is still in `from`, so two requests cannot both
  * move it. The blank goes to the move's location, else the usual place of its new state, and the stock of
  * blank products counted from the register follows in the same transaction. Returns the moved row, or
- * null when the blank had already left `from`. Moves that the maker makes on the blank itself go through
- * changeBlank; no other code writes a blank's state.
+ * null when the blank had already left `from`. A reserved blank packed for an order still to ship moves
+ * only to shipped (409 naming the order otherwise). Moves that the maker makes on the blank itself go
+ * through changeBlank; no other code writes a blank's state.
  */
 export async function moveBlank(tx: Database | Transaction, blankId: number, move: BlankMove): Promise<BlankRow | null> {
+  if (move.from === 'reserved' && move.to !== 'shipped') {
+    const tie = await blankOrderTieOf(tx, blankId)
+    if (tie) {
+      const [blank] = await tx.select().from(blanks).where(eq(blanks.id, blankId)).limit(1)
+      throw tiedToOrderError(blank!, tie.orderNumber, `moved to ${move.to.replace('_', ' ')}`)
+    }
+  }
   const at = move.at ?? new Date()
   const location = move.location ?? blankUsualPlaces[move.to]
   const [moved] = await tx.update(blanks).set({ state: move.to, location, updatedAt: at })
@@ -107,9 +144,15 @@ type BlankChanges = Partial<Pick<BlankRow, 'state' | 'diameterIn' | 'surfacesUse
  * Applies the changes; a move to another state is logged with its reason and takes the blank to the usual
  * place of its new state unless the changes name a location (a location the maker typed stays until the
  * next change of state). Any change naming a state (a test stored, even one that keeps the state) counts
- * the register's blank stock again. `at` back-dates the change and its log (the demo seed).
+ * the register's blank stock again. `at` back-dates the change and its log (the demo seed). A blank tied
+ * to an order at packing is refused any change of state (409 naming the order) until the order ships.
  */
 export async function changeBlank(tx: Transaction, blank: BlankRow, changes: BlankChanges, reason: string, byUserId: number | null, at?: Date): Promise<BlankRow> {
+  // A blank packed for an unshipped order leaves its state only by shipping (moveBlank, from dispatch).
+  if (changes.state && changes.state !== blank.state) {
+    const tie = await blankOrderTieOf(tx, blank.id)
+    if (tie) throw tiedToOrderError(blank, tie.orderNumber, `moved to ${changes.state.replace('_', ' ')}`)
+  }
   const location = blankLocationAfter(blank, changes)
   const [updated] = await tx.update(blanks).set({ ...changes, location, updatedAt: at ?? new Date() }).where(eq(blanks.id, blank.id)).returning()
   if (changes.state && changes.state !== blank.state) {

@@ -1,7 +1,4 @@
-import { eq } from 'drizzle-orm'
-import { waxBatches } from '../../../db/schema'
-
-/** Corrects a batch: only the fields sent change. */
+/** Corrects a batch: only the fields sent change; a new wax formula recounts the register's blank stock at once. */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'maker')
   const { id } = paramsWith(event, waxBatchIdParamsSchema)
@@ -9,12 +6,5 @@ export default defineEventHandler(async (event) => {
   const db = await useDB()
   await checkWaxFormulaId(db, patch.waxFormulaId)
   checkCastingCounts(await findWaxBatch(db, id), patch)
-  try {
-    const [batch] = await db.update(waxBatches).set(patch).where(eq(waxBatches.id, id)).returning()
-    return batch!
-  }
-  catch (error) {
-    if (patch.code && isWaxBatchCodeTaken(error)) throw waxBatchCodeTaken(patch.code)
-    throw error
-  }
+  return await updateWaxBatch(db, id, patch)
 })

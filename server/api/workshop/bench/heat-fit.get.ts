@@ -19,6 +19,7 @@ export default defineEventHandler(async (event) => {
   const query = queryWith(event, heatFitQuerySchema)
   const db = await useDB()
   const settings = await getSetting('engine', db)
+  const words = await getSetting('units', db)
   const { taper, waxFormulas } = settings.fit
   if (query.wax !== undefined && !waxFormulas.some(wax => wax.id === query.wax)) {
     throw fieldError('wax', `no wax formula "${query.wax}" in the shop's settings; choose one of ${waxFormulas.map(wax => wax.id).join(', ')}`)
@@ -34,7 +35,7 @@ export default defineEventHandler(async (event) => {
   }
   try {
     return {
-      ...benchHeatFit(query, settings, batch),
+      ...benchHeatFit(query, settings, batch, words),
       taperPerFootIn: taper.perFootIn,
       waxFormulas: waxFormulas.map(({ id, label }) => ({ id, label })),
     }

@@ -8,12 +8,12 @@ const formatFieldSchema = z.object({ format: z.enum(cylinderFormats, { error: 'f
  * the engine cannot read → its status (400, 413, 415, 422) with its message.
  */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'maker')
-  const upload = await readUploadForm(event, 'surface_test', { required: 'choose the WAV file of the play-through' })
+  // The body streams in while the role and the shop's limits are looked up.
+  const upload = await readUploadFormDuring(event, 'surface_test', Promise.all([requireRole(event, 'maker'), getSetting('surface')]), { required: 'choose the WAV file of the play-through' })
+  const [, thresholds] = upload.checked
   const { format, ...fields } = upload.fields
   const { rpm } = surfaceFieldsWith(fields, surfaceAnalyseFieldsSchema)
   const { format: cylinder } = surfaceFieldsWith({ format: format ?? '' }, formatFieldSchema)
-  const thresholds = await getSetting('surface')
   const analysis = analyseSurfaceUpload(upload.file!.data, { rpm, thresholds })
   // Given the format, a take too short to cover the surface is judged incomplete, as on a blank.
   return cylinder ? judgeSurfaceCoverage(analysis, cylinder, rpm, await getSetting('engine'), thresholds) : analysis
