@@ -5,7 +5,7 @@ const migrationsDir = fileURLToPath(new URL('./drizzle', import.meta.url))
 const guidesDir = fileURLToPath(new URL('./content/guides', import.meta.url))
 
 export default defineNuxtConfig({
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint', 'nuxt-security', '@nuxtjs/mdc'],
+  modules: ['@nuxtjs/tailwindcss', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint', 'nuxt-security', '@nuxtjs/mdc'],
   devtools: { enabled: false },
   app: {
     head: {
@@ -148,6 +148,11 @@ export default defineNuxtConfig({
   },
   // GW_BUILD_DIR / GW_OUTPUT_DIR let two builds of one checkout live side by side (e.g. a second worktree's tests).
   ...(process.env.GW_BUILD_DIR ? { buildDir: process.env.GW_BUILD_DIR } : {}),
+  // GW_CLIENT_SOURCEMAP=1 writes source maps of the browser bundle (not linked from the scripts), to see what each chunk holds.
+  ...(process.env.GW_CLIENT_SOURCEMAP ? { sourcemap: { client: 'hidden' as const } } : {}),
+  // The stores (app/stores) are auto-imported like composables. pinia comes without its Nuxt module: the cart
+  // store makes the app's pinia on first use (app/stores/cartPinia.ts), so pages without the cart load none of it.
+  imports: { dirs: ['stores'] },
   experimental: {
     // No client-side route rules are used (ours only set response headers), so the pages need not fetch the
     // build manifest (/_nuxt/builds/meta) nor carry the code that reads it.
@@ -155,6 +160,9 @@ export default defineNuxtConfig({
     // A link fetches its page's code when it is pointed at or focused, not whenever it scrolls into view:
     // a catalogue page shows some forty links, whose pages would otherwise load while the phone is still busy.
     defaults: { nuxtLink: { prefetchOn: { visibility: false, interaction: true } } },
+    // The page's state goes to the browser as a script (window.__NUXT__) rather than as JSON to be revived:
+    // the state holds plain data only (no refs, no pinia), and the browser is spared devalue's reader.
+    renderJsonPayloads: false,
   },
   nitro: {
     ...(process.env.GW_OUTPUT_DIR ? { output: { dir: process.env.GW_OUTPUT_DIR } } : {}),
@@ -178,6 +186,8 @@ export default defineNuxtConfig({
   vite: {
     // Every component is written with <script setup> / setup(): the Options API's runtime is left out of the bundle.
     define: { __VUE_OPTIONS_API__: 'false' },
+    // Browsers that run this app's module scripts know <link rel=modulepreload>; no polyfill for it in the entry.
+    build: { modulePreload: { polyfill: false } },
   },
   typescript: {
     strict: true,

@@ -82,6 +82,9 @@ run('server', [`${outputDir}/server/index.mjs`], {
   NUXT_STRIPE_API_PORT: String(stripePort),
   NUXT_SEED_DEMO: seedDemo,
   NUXT_SETUP_TOKEN: setupCode,
+  // Two malloc arenas instead of one per thread: about 70 MB less resident memory for the same work
+  // (README › Configuration).
+  MALLOC_ARENA_MAX: process.env.MALLOC_ARENA_MAX ?? '2',
 })
 
 const deadline = Date.now() + 120_000

@@ -1,4 +1,5 @@
 import { defineStore } from 'pinia'
+import { cartPinia } from './cartPinia'
 
 export interface CartLine {
   slug: string
@@ -39,10 +40,10 @@ const isLine = (line: CartLine) => typeof line?.slug === 'string' && Number.isIn
 const isMessage = (message: CartMessage) => typeof message?.key === 'string' && typeof message.script === 'string' && Array.isArray(message.priceParts)
 
 /**
- * The cart lives in the browser (kept across reloads in localStorage by plugins/cart.client.ts); the server
+ * The cart lives in the browser (kept across reloads in localStorage, stores/cartPinia.ts); the server
  * prices it at checkout. Cylinders and personal messages sit side by side.
  */
-export const useCartStore = defineStore('cart', () => {
+const defineCart = defineStore('cart', () => {
   const lines = ref<CartLine[]>([])
   const messages = ref<CartMessage[]>([])
 
@@ -99,3 +100,8 @@ export const useCartStore = defineStore('cart', () => {
 
   return { lines, messages, count, empty, tidy, add, setQty, remove, addMessage, removeMessage, acceptQuote, clear }
 })
+
+/** The cart, in the app's pinia (made on first use: stores/cartPinia.ts). */
+export function useCartStore() {
+  return defineCart(cartPinia())
+}

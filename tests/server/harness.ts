@@ -34,6 +34,9 @@ export async function useTestServer(env: Record<string, string> = {}, options: {
   const mail = { fake: await startMailFake({ smtpPort: 0, httpPort: 0, dir: mailDir, quiet: true }), dir: mailDir }
   const payments = await startStripeFake({ port: 0, webhookUrl: null, webhookSecret, quiet: true, retry: { attempts: 6, baseMs: 200 } })
   const database = await freshServerDatabase()
+  // Each test server keeps its files (uploads, backups) in a folder of its own, so one test's backup
+  // never reads what other runs left behind.
+  const dataDir = mkdtempSync(join(tmpdir(), 'gw-data-'))
   await setup({
     rootDir,
     build: false,
@@ -45,6 +48,8 @@ export async function useTestServer(env: Record<string, string> = {}, options: {
     env: {
       NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
       NUXT_DB_DIR: 'memory://',
+      NUXT_DATA_DIR: dataDir,
+      NUXT_UPLOADS_DIR: join(dataDir, 'uploads'),
       NUXT_SMTP_PORT: String(mail.fake.smtpPort),
       NUXT_MAIL_POLL_MS: '150',
       NUXT_MAIL_MAX_BACKOFF_MS: '800',

@@ -1,9 +1,13 @@
-import type { Pinia, PiniaPluginContext } from 'pinia'
-import type { CartLine, CartMessage, useCartStore } from '~/stores/cart'
+import { createPinia, type Pinia, type PiniaPluginContext } from 'pinia'
+import type { CartLine, CartMessage, useCartStore } from './cart'
+
+// The app's pinia is made when a store is first used (`useCartStore`), not by a plugin at start: a page
+// without the cart on it (the catalogue's first load) carries none of pinia's code. One pinia per app, so one
+// per request on the server; the cart is the browser's, so nothing of it travels in the page's payload.
+const pinias = new WeakMap<object, Pinia>()
 
 // The cart is kept in the browser's localStorage under one key: read when the cart store is first used,
-// written on every change. The store itself is not loaded until a page (or the header's count) asks for it,
-// so a page without the cart on it carries none of its code on first load.
+// written on every change.
 const key = 'groovewright-cart-v2'
 
 function keepCart(context: PiniaPluginContext) {
@@ -31,9 +35,15 @@ function keepCart(context: PiniaPluginContext) {
   }, { detached: true, flush: 'sync' })
 }
 
-export default defineNuxtPlugin({
-  name: 'cart-persistence',
-  setup(nuxtApp) {
-    (nuxtApp.$pinia as Pinia).use(keepCart)
-  },
-})
+/** This app's pinia, made on first use; in the browser it keeps the cart in localStorage. */
+export function cartPinia(): Pinia {
+  const nuxtApp = useNuxtApp()
+  let pinia = pinias.get(nuxtApp)
+  if (!pinia) {
+    pinia = createPinia()
+    if (import.meta.client) pinia.use(keepCart)
+    nuxtApp.vueApp.use(pinia)
+    pinias.set(nuxtApp, pinia)
+  }
+  return pinia
+}
