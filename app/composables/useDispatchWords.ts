@@ -20,6 +20,8 @@ export function useDispatchWords() {
       : `${extent.map(side => Number(side.toFixed(1))).join(' × ')} in`,
     /** A plain day (`YYYY-MM-DD`) or a moment as a day; a dash when there is none. */
     dispatchDay: (iso: string | null | undefined) => iso ? units.day(iso) : '—',
+    /** A shipping day (`YYYY-MM-DD`) with its weekday, `Mon 7 Dec` or `Mon, Dec 7`; a dash when there is none. */
+    shipDay: (iso: string | null | undefined) => iso ? formatShippingDay(iso, units.prefs.value.locale) : '—',
     /** A moment with its time; a dash when there is none. */
     dispatchMoment: (iso: string | null | undefined) => iso ? units.when(iso) : '—',
   }

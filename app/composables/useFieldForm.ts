@@ -9,3 +9,14 @@ export function useFieldForm<T extends Record<string, string>>(values: T, fields
 }
 
 export type FieldForm = ReturnType<typeof useFieldForm>
+
+/**
+ * What `<UiForm :form>` reads: a submit's busy state and errors (useFormSubmit, useBenchCalculator…)
+ * and, from useFieldForm, the values and fields it then draws.
+ */
+export interface FormState {
+  busy: Ref<boolean>
+  errors: ReturnType<typeof useFormErrors>
+  values?: Record<string, string>
+  fields?: ComputedRef<FieldSpec[]>
+}

@@ -59,4 +59,5 @@ export async function useWorkshopOrder(number: string) {
   return { order, refund, restock, restockable, restockError, refundable, remaining, done, busy, errors, pageError, sendRefund, cancelOrder }
 }
 
+export type WorkshopOrderPage = Awaited<ReturnType<typeof useWorkshopOrder>>
 export type WorkshopOrderView = NonNullable<Awaited<ReturnType<typeof useWorkshopOrder>>['order']['value']>

@@ -29,6 +29,6 @@ export const customHints = {
   scriptOfRecording: 'The length on the record is your recording\'s own.',
 } as const
 
-/** The earliest day a message can be sent, as the date field's hint. */
-export const customEarliestHint = (earliestDate?: string) =>
-  earliestDate ? `The earliest we can send it: ${ticketDay(earliestDate)}.` : customHints.wishedDate
+/** The earliest day a message can be sent, as the date field's hint, in the shop's locale (`useUnits().prefs`). */
+export const customEarliestHint = (earliestDate: string | undefined, locale: string) =>
+  earliestDate ? `The earliest we can send it: ${ticketDay(earliestDate, locale)}.` : customHints.wishedDate

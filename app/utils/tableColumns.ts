@@ -1,8 +1,9 @@
 /**
- * One column of a `<UiDataTable>`: its heading, the row's value under `key` unless the table's caller
- * fills the cell through a slot of that name, and how the cell is set.
+ * One column of a `<UiDataTable>`: its heading, the row's value under `key` (or its `text`, and a
+ * `detail` line under it) unless the table's caller fills the cell through a slot of that name, and how
+ * the cell is set.
  */
-export interface TableColumn {
+export interface TableColumn<Row = never> {
   key: string
   label: string
   /** The heading is read by screen readers only (e.g. a column of buttons). */
@@ -17,4 +18,8 @@ export interface TableColumn {
   tint?: string
   /** Left out of a stacked row at phone width (`<UiDataTable stack>`): the row's own page shows it. */
   stackHidden?: boolean
+  /** The cell's text, where it is not the value as it stands (a date, a sum of money…). */
+  text?(row: Row): string | number
+  /** A quieter line under the text (the other unit, an e-mail under a name), left out when empty. */
+  detail?(row: Row): string | undefined
 }

@@ -1,5 +1,6 @@
 import { expect, test } from '@playwright/test'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { awake, open } from './support/page'
 
 // The launcher prints http://localhost:<port> as the shop's address (its default) and the server
 // listens on 127.0.0.1. A collector who types the other name must still come back from the payment
@@ -21,10 +22,12 @@ test('opened as 127.0.0.1, the shop moves to the printed address first; the paym
   await page.goto(`${otherName}/cylinders?kind=blank`)
   await expect(page).toHaveURL(`${printed}/cylinders?kind=blank`)
   await page.locator('article').filter({ hasNot: page.getByText('Sold out') }).first().getByRole('heading').getByRole('link').click()
+  await expect(page).toHaveURL(/\/cylinders\/[a-z0-9-]+$/)
+  await awake(page)
   await page.getByRole('button', { name: 'Add to cart' }).click()
   await expect(page.getByText('added to your cart')).toBeVisible()
 
-  await page.goto(`${printed}/cart`)
+  await open(page, `${printed}/cart`)
   await page.locator('input[name="name"]').fill('Iris Quillfeather')
   await page.locator('input[name="line1"]').fill('4 Lantern Row')
   await page.getByLabel('Postal code').fill('LM1 7QX')

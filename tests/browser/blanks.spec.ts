@@ -1,27 +1,23 @@
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type Page } from '@playwright/test'
 import { makeSurfaceWav } from '../../server/audio/synth'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { noSeriousAxe, open } from './support/page'
+import { signIn } from './support/signIn'
 
 const shots = 'tests/browser/report'
 
-async function signInAsMaker(page: Page) {
-  const maker = demoAccounts.find(a => a.role === 'maker')!
-  await page.goto('/signin')
-  // The submit button is enabled once the page is hydrated: typing before that can be wiped.
-  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
-  await page.getByLabel('E-mail').fill(maker.email)
-  await page.getByLabel('Password').fill(maker.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
+/** The analyse page, awake: its upload button is enabled once the page's script has taken over, so a file chosen then is kept. */
+async function openAnalyse(page: Page) {
+  await page.goto('/workshop/analyse')
+  await expect(page.getByRole('button', { name: 'Upload and analyse' })).toBeEnabled()
 }
 
-async function expectNoSeriousAxeViolations(page: Page) {
-  const axe = await new AxeBuilder({ page }).analyze()
-  expect(axe.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')).toEqual([])
+/** The shop settings, awake: the limits' save button is enabled once the page's script has taken over. */
+async function openSettings(page: Page) {
+  await page.goto('/workshop/settings')
+  await expect(page.getByRole('button', { name: 'Save limits' })).toBeEnabled()
 }
 
 /** A batch and blanks through the API, as the maker's own browser session (its cookie, this site's Origin). */
@@ -54,10 +50,10 @@ test.afterAll(() => rmSync(wavDir, { recursive: true, force: true }))
 
 test('the maker filters the register, opens a shaved blank, uploads its play-through and reads the figures', async ({ page, baseURL }) => {
   await page.setViewportSize({ width: 1280, height: 900 })
-  await signInAsMaker(page)
+  await signIn(page, 'maker')
   const { shaved, cast, batchCode } = await prepareBlanks(page, baseURL!)
 
-  await page.goto('/workshop')
+  await open(page, '/workshop')
   await page.getByRole('link', { name: /Blank register/ }).click()
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Blank register')
 
@@ -68,7 +64,7 @@ test('the maker filters the register, opens a shaved blank, uploads its play-thr
   await expect(table.getByRole('link', { name: cast })).toHaveCount(0)
   for (const badge of await table.locator('tbody tr td:nth-child(2)').allTextContents()) expect(badge.trim()).toBe('Shaved')
   await page.screenshot({ path: `${shots}/blanks-register-desktop.png`, fullPage: true })
-  await expectNoSeriousAxeViolations(page)
+  await noSeriousAxe(page)
 
   await table.getByRole('link', { name: shaved }).click()
   await expect(page.getByRole('heading', { level: 1 })).toHaveText(`Blank ${shaved}`)
@@ -94,7 +90,7 @@ test('the maker filters the register, opens a shaved blank, uploads its play-thr
   await expect(card.getByRole('img', { name: 'Spectrum (1/3-octave bands)' })).toBeVisible()
   await expect(page.getByRole('region', { name: 'The blank now' })).toContainText('Tested: pass')
   await page.screenshot({ path: `${shots}/blanks-blank-desktop.png`, fullPage: true })
-  await expectNoSeriousAxeViolations(page)
+  await noSeriousAxe(page)
 
   await page.setViewportSize({ width: 390, height: 844 })
   await page.reload()
@@ -111,13 +107,13 @@ test('the maker filters the register, opens a shaved blank, uploads its play-thr
   await expect(page.getByTestId('stale-test').first()).toHaveText('stale, test again')
   expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
   await page.screenshot({ path: `${shots}/blanks-register-phone.png`, fullPage: true })
-  await expectNoSeriousAxeViolations(page)
+  await noSeriousAxe(page)
 })
 
 test('the analyse page measures a chosen file, plots it and plays it from the browser\'s copy', async ({ page }) => {
   await page.setViewportSize({ width: 1280, height: 900 })
-  await signInAsMaker(page)
-  await page.goto('/workshop/analyse')
+  await signIn(page, 'maker')
+  await openAnalyse(page)
   await page.getByLabel('Play-through recording (WAV)').setInputFiles(wavPath)
   await expect(page.locator('audio')).toHaveAttribute('src', /^blob:/)
   await page.getByRole('button', { name: 'Upload and analyse' }).click()
@@ -126,7 +122,7 @@ test('the analyse page measures a chosen file, plots it and plays it from the br
   await expect(analysis).toContainText('within the shop\'s limits')
   await expect(page.getByRole('progressbar')).toHaveAttribute('aria-valuenow', '100')
   await page.screenshot({ path: `${shots}/blanks-analyse-desktop.png`, fullPage: true })
-  await expectNoSeriousAxeViolations(page)
+  await noSeriousAxe(page)
 
   await page.setViewportSize({ width: 390, height: 844 })
   expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
@@ -135,8 +131,8 @@ test('the analyse page measures a chosen file, plots it and plays it from the br
 
 test('the maker tightens the surface-test limits in settings, and the next analysis is judged by them', async ({ page }) => {
   await page.setViewportSize({ width: 1280, height: 900 })
-  await signInAsMaker(page)
-  await page.goto('/workshop/settings')
+  await signIn(page, 'maker')
+  await openSettings(page)
   const limits = page.locator('form', { has: page.getByRole('heading', { name: 'Surface-test limits' }) })
   const noise = limits.getByRole('group', { name: /Surface noise, A-weighted/ })
   // A fail limit below the marginal one is refused beside the field, and nothing is saved.
@@ -147,15 +143,15 @@ test('the maker tightens the surface-test limits in settings, and the next analy
   await noise.getByLabel('Fail above').fill('-80')
   await limits.getByRole('button', { name: 'Save limits' }).click()
   await expect(limits.getByText('Saved.')).toBeVisible()
-  await expectNoSeriousAxeViolations(page)
+  await noSeriousAxe(page)
   try {
-    await page.goto('/workshop/analyse')
+    await openAnalyse(page)
     await page.getByLabel('Play-through recording (WAV)').setInputFiles(wavPath)
     await page.getByRole('button', { name: 'Upload and analyse' }).click()
     await expect(page.getByTestId('analysis')).toContainText('above the fail limit of −80.0 dBFS')
   }
   finally {
-    await page.goto('/workshop/settings')
+    await openSettings(page)
     await limits.getByRole('button', { name: 'Fill in the shop defaults' }).click()
     await limits.getByRole('button', { name: 'Save limits' }).click()
     await expect(limits.getByText('Saved.')).toBeVisible()
@@ -164,7 +160,7 @@ test('the maker tightens the surface-test limits in settings, and the next analy
 })
 
 test('a label prints the code as a barcode with batch and format', async ({ page, baseURL }) => {
-  await signInAsMaker(page)
+  await signIn(page, 'maker')
   const { cast } = await prepareBlanks(page, baseURL!)
   await page.goto(`/workshop/blanks/${cast}/label`)
   const label = page.getByRole('article', { name: 'The label' })

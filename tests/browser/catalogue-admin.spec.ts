@@ -1,25 +1,11 @@
-import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type Page } from '@playwright/test'
 import sharp from 'sharp'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { noSeriousAxe, open } from './support/page'
+import { signIn } from './support/signIn'
 
 const shots = 'tests/browser/report'
 const maker = demoAccounts.find(a => a.role === 'maker')!
-
-async function signInAsMaker(page: Page) {
-  await page.goto('/signin')
-  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
-  await page.getByLabel('E-mail').fill(maker.email)
-  await page.getByLabel('Password').fill(maker.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
-}
-
-async function expectNothingSerious(page: Page, where: string) {
-  const result = await new AxeBuilder({ page }).analyze()
-  const serious = result.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')
-  expect(serious.map(v => `${where}: ${v.id} (${v.nodes.length})`)).toEqual([])
-}
 
 async function expectNoSidewaysScroll(page: Page) {
   const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)
@@ -59,8 +45,8 @@ test('the maker finds a cylinder, changes its price, adds a photo, and the chang
   const pageErrors: string[] = []
   page.on('pageerror', error => pageErrors.push(error.message))
   await page.setViewportSize({ width: 1280, height: 900 })
-  await signInAsMaker(page)
-  await page.goto('/workshop')
+  await signIn(page, 'maker')
+  await open(page, '/workshop')
   await page.getByRole('link', { name: /^Catalogue/ }).click()
   await expect(page).toHaveURL(/\/workshop\/catalogue$/)
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Catalogue')
@@ -70,7 +56,7 @@ test('the maker finds a cylinder, changes its price, adds a photo, and the chang
   await expect(rows.filter({ hasText: 'Reel for a Cracked Mandrel' })).toContainText('Sold out')
   await loadAllImages(page)
   await page.screenshot({ path: `${shots}/catalogue-list-desktop.png`, fullPage: true })
-  await expectNothingSerious(page, 'list')
+  await noSeriousAxe(page, 'list')
 
   await page.getByRole('searchbox', { name: 'Search' }).fill('tallow')
   await page.getByRole('button', { name: 'Search' }).click()
@@ -98,7 +84,7 @@ test('the maker finds a cylinder, changes its price, adds a photo, and the chang
   const log = page.getByRole('region', { name: 'Change log' })
   await expect(log.getByTestId('change-entry').filter({ hasText: 'Price: $34.00 → $36.50' })).toContainText(maker.name)
   await page.screenshot({ path: `${shots}/catalogue-edit-desktop.png`, fullPage: true })
-  await expectNothingSerious(page, 'edit')
+  await noSeriousAxe(page, 'edit')
 
   // Kept: after a reload the new price and the third photo are still there.
   await page.setViewportSize({ width: 390, height: 844 })
@@ -107,28 +93,28 @@ test('the maker finds a cylinder, changes its price, adds a photo, and the chang
   await expect(previews).toHaveCount(3)
   await expectNoSidewaysScroll(page)
   await page.screenshot({ path: `${shots}/catalogue-edit-phone.png`, fullPage: true })
-  await expectNothingSerious(page, 'edit, phone')
+  await noSeriousAxe(page, 'edit, phone')
 
   await page.goto('/workshop/catalogue')
   await expect(rows).toHaveCount(16)
   await expectNoSidewaysScroll(page)
   await loadAllImages(page)
   await page.screenshot({ path: `${shots}/catalogue-list-phone.png`, fullPage: true })
-  await expectNothingSerious(page, 'list, phone')
+  await noSeriousAxe(page, 'list, phone')
   expect(pageErrors).toEqual([])
 })
 
 test('a new product: the form names what is missing, then creates it', async ({ page }) => {
   await page.setViewportSize({ width: 1280, height: 900 })
-  await signInAsMaker(page)
-  await page.goto('/workshop/catalogue/new')
+  await signIn(page, 'maker')
+  await open(page, '/workshop/catalogue/new')
   await page.getByRole('button', { name: 'Create product' }).click()
   await expect(page.getByText('Please correct the marked fields.')).toBeVisible()
   await expect(page.getByText('title needs at least 2 characters')).toBeVisible()
   await expect(page.getByText('performer is required for a recorded cylinder')).toBeVisible()
   await expect(page.getByLabel('Title')).toBeFocused()
   await page.screenshot({ path: `${shots}/catalogue-new-errors-desktop.png`, fullPage: true })
-  await expectNothingSerious(page, 'new, with errors')
+  await noSeriousAxe(page, 'new, with errors')
 
   await page.getByLabel('Title').fill('Chandler\'s Hornpipe')
   await expect(page.getByLabel('Address in the shop (slug)')).toHaveValue('chandlers-hornpipe')

@@ -1,7 +1,8 @@
 // The Content Security Policy (nuxt.config.ts `security`, README "Security") lets every page of the app
 // run, style and draw itself: no console message or page error about it on the main pages of each role.
 import { expect, test, type Page } from '@playwright/test'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { awake } from './support/page'
+import { signIn } from './support/signIn'
 
 const shots = 'tests/browser/report'
 
@@ -24,20 +25,11 @@ function watchPolicy(page: Page) {
   return problems
 }
 
-async function signIn(page: Page, role: string) {
-  const account = demoAccounts.find(a => a.role === role)!
-  await page.goto('/signin')
-  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
-  await page.getByLabel('E-mail').fill(account.email)
-  await page.getByLabel('Password').fill(account.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await expect(page.getByTestId('signed-in-as')).toContainText(role)
-}
-
-/** Opens a page, waits for it to settle and for its fonts, and checks that the page has its h1. */
+/** Opens a page, waits for it to settle (awake, nothing left loading), and checks that the page has its h1. */
 async function visit(page: Page, path: string, heading?: string | RegExp) {
   const answer = await page.goto(path)
   expect(answer?.status(), path).toBeLessThan(400)
+  await awake(page)
   await page.waitForLoadState('networkidle')
   const h1 = page.getByRole('heading', { level: 1 }).first()
   await expect(h1, path).toBeVisible()

@@ -2,24 +2,17 @@ import { execFileSync } from 'node:child_process'
 import { mkdtempSync, readFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type APIRequestContext, type Browser, type Page } from '@playwright/test'
 import { makeSurfaceWav } from '../../server/audio/synth'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { messageFitForFormat } from '../../shared/utils/messageFit'
 import { formatMoney } from '../../shared/utils/moneyFormat'
+import { awake, noSeriousAxe, open } from './support/page'
+import { signInThroughApi, site } from './support/signIn'
 
 const shots = 'tests/browser/report'
 const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
-const site = `http://localhost:${port}`
 const inbox = `http://127.0.0.1:${port + 1002}`
 const paymentPage = new RegExp(`127\\.0\\.0\\.1:${port + 1003}/pay/cs_test_`)
-
-async function noSeriousAxe(page: Page) {
-  const result = await new AxeBuilder({ page }).analyze()
-  const serious = result.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')
-  expect(serious.map(v => `${v.id}: ${v.nodes.map(n => n.target.join(' ')).join(', ')}`)).toEqual([])
-}
 
 const noSideways = async (page: Page) => expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
 
@@ -44,23 +37,13 @@ async function quoteFor(request: APIRequestContext, body: Record<string, unknown
   return await answer.json()
 }
 
-/** Signs in through the API (the sign-in form has its own tests); the page's context keeps the cookie. */
-async function signIn(page: Page, role: 'maker' | 'collector') {
-  const account = demoAccounts.find(a => a.role === role)!
-  const answer = await page.request.post('/api/auth/login', { headers: { origin: site }, data: { email: account.email, password: account.password } })
-  expect(answer.status(), await answer.text()).toBeLessThan(300)
-  await page.goto('/')
-  await expect(page.getByTestId('signed-in-as')).toContainText(role)
-  return account
-}
-
 const address = { name: 'Iris Quillfeather', line1: '3 Candle Row', city: 'Lowmere', postalCode: 'LM4 2CR', region: 'OR', country: 'US' }
 
 test('the meter and the price on /custom are the quote\'s; a message too long or wished too early cannot be ordered', async ({ page }) => {
   const pageErrors: string[] = []
   page.on('pageerror', error => pageErrors.push(error.message))
   await page.setViewportSize({ width: 1280, height: 900 })
-  await page.goto('/custom')
+  await open(page, '/custom')
   await page.getByLabel('Occasion').fill('Birthday')
   await page.getByLabel('Recipient\'s name').fill('Odile Fenwick')
   const date = page.getByLabel('Wished-for date')
@@ -172,13 +155,13 @@ function proofWav(seconds: number, hz: number): Buffer {
 async function makerPage(browser: Browser) {
   const context = await browser.newContext({ baseURL: site, viewport: { width: 1280, height: 900 } })
   const page = await context.newPage()
-  await signIn(page, 'maker')
+  await signInThroughApi(page, 'maker')
   return page
 }
 
 /** The maker cuts on the given blank and sends a proof from the ticket page. */
 async function cutAndSendProof(page: Page, ticketId: number, blankCode: string, take: number) {
-  await page.goto(`/workshop/tickets/${ticketId}`)
+  await open(page, `/workshop/tickets/${ticketId}`)
   const stage = page.locator('[data-testid="ticket-stage"][aria-current="step"]')
   await page.getByLabel(new RegExp(blankCode)).check()
   // The first time the blank is assigned; after a re-cut the rejected one is changed for a fresh one.
@@ -210,23 +193,18 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
   const pageErrors: string[] = []
   page.on('pageerror', error => pageErrors.push(error.message))
   await page.setViewportSize({ width: 1280, height: 900 })
-  const collector = await signIn(page, 'collector')
+  const collector = await signInThroughApi(page, 'collector')
 
-  await page.goto('/custom')
-  // A page still waking up resets what was typed into it: filled again until every field holds.
-  await expect(async () => {
-    await page.getByLabel('Occasion').fill('Wedding')
-    await page.getByLabel('Recipient\'s name').fill('Tamsin and Orrin')
-    await page.getByLabel('The script').fill(scriptOf(8))
-    await expect(page.getByLabel('Occasion')).toHaveValue('Wedding', { timeout: 500 })
-    await expect(page.getByLabel('Recipient\'s name')).toHaveValue('Tamsin and Orrin', { timeout: 500 })
-    await expect(page.getByLabel('The script')).toHaveValue(scriptOf(8), { timeout: 500 })
-  }).toPass({ timeout: 15_000 })
+  // Filled once the page is awake: a page still waking up resets what was typed into it.
+  await open(page, '/custom')
+  await page.getByLabel('Occasion').fill('Wedding')
+  await page.getByLabel('Recipient\'s name').fill('Tamsin and Orrin')
+  await page.getByLabel('The script').fill(scriptOf(8))
   await expect(page.getByTestId('fit-verdict')).toHaveText('Fits')
   await page.getByRole('button', { name: 'Add to cart' }).click()
   await expect(page.getByText('is in your cart')).toBeVisible()
 
-  await page.goto('/cart')
+  await open(page, '/cart')
   const line = page.getByTestId('cart-message-0')
   await expect(line).toContainText('Wedding · for Tamsin and Orrin')
   await expect(line).toContainText('Many happy returns from all of us')
@@ -260,7 +238,7 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
     return ticketId
   }, { timeout: 15_000 }).toBeGreaterThan(0)
   // The board shows the message's fit and its wished-for date.
-  await maker.goto(`/workshop/tickets?q=${orderNumber}`)
+  await open(maker, `/workshop/tickets?q=${orderNumber}`)
   await expect(maker.getByTestId(`ticket-${ticketId}`).getByTestId('custom-fit')).toContainText(/Message 0:\d\d, fits ·\s+wished for (\d+ \w+|\w+ \d+,) 20\d\d/)
   await cutAndSendProof(maker, ticketId, blanks[0]!, 1)
 
@@ -280,7 +258,7 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
   await maker.setViewportSize({ width: 1280, height: 900 })
 
   // The collector hears the proof and asks for a re-cut.
-  await page.goto(`/orders/${orderNumber}`)
+  await open(page, `/orders/${orderNumber}`)
   const proofs = page.getByRole('region', { name: /Your personal message/ })
   await expect(proofs.getByText('Take 1, cut at 160 rpm.')).toBeVisible()
   expect(await audioSeconds(page, 0)).toBeGreaterThan(0)
@@ -299,6 +277,7 @@ test('a collector orders a message, hears the proof, asks for a re-cut, approves
   // The maker cuts again on a fresh blank and sends a second proof; the collector approves it.
   await cutAndSendProof(maker, ticketId, blanks[1]!, 2)
   await page.reload()
+  await awake(page)
   await expect(proofs.getByText('Take 2, cut at 160 rpm.')).toBeVisible()
   expect(await audioSeconds(page, 0)).toBeGreaterThan(0)
   // The free re-cut is used: asking again shows the server's refusal with the price, and a way to pay.

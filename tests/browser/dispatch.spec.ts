@@ -1,8 +1,8 @@
-import AxeBuilder from '@axe-core/playwright'
-import { expect, test, type APIRequestContext, type Browser, type Page } from '@playwright/test'
+import { expect, test, type APIRequestContext, type Page } from '@playwright/test'
 import sharp from 'sharp'
 import { makeSurfaceWav } from '../../server/audio/synth'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { noSeriousAxe, open } from './support/page'
+import { demoAccount as account, signedInContext, signInThroughApi, site } from './support/signIn'
 
 /*
  * The shipper at the bench, on a phone (390 × 844): a collector's order made to order is driven to
@@ -14,18 +14,10 @@ import { demoAccounts } from '../../shared/utils/demoAccounts'
 
 const shots = 'tests/browser/report'
 const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
-const site = `http://localhost:${port}`
 const paymentFake = `http://127.0.0.1:${port + 1003}`
 const inbox = `http://127.0.0.1:${port + 1002}`
-const account = (role: 'maker' | 'shipper' | 'collector') => demoAccounts.find(a => a.role === role)!
 const phone = { width: 390, height: 844 }
 const desktop = { width: 1280, height: 900 }
-
-async function noSeriousAxe(page: Page) {
-  const result = await new AxeBuilder({ page }).analyze()
-  const serious = result.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')
-  expect(serious.map(v => `${v.id}: ${v.nodes.map(n => n.target.join(' ')).join(', ')}`)).toEqual([])
-}
 
 const noSideways = async (page: Page) => expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
 
@@ -44,12 +36,6 @@ async function api(request: APIRequestContext, method: 'GET' | 'POST', path: str
   const response = await request.fetch(path, { method, headers: { origin: site }, data: body })
   expect(response.status(), `${method} ${path}: ${await response.text()}`).toBeLessThan(300)
   return await response.json()
-}
-
-async function signedInContext(browser: Browser, role: 'maker' | 'collector') {
-  const context = await browser.newContext({ baseURL: site })
-  await api(context.request, 'POST', '/api/auth/login', { email: account(role).email, password: account(role).password })
-  return context
 }
 
 /** A four-minute blank through the register: cast, reamed, shaved and a quiet play-through that passes. */
@@ -97,11 +83,7 @@ async function readyToPackOrder(maker: APIRequestContext, buyer: APIRequestConte
 }
 
 /** The shipper signs in through the API in the page's own context (the sign-in form has its own test). */
-async function signInAsShipper(page: Page) {
-  await api(page.request, 'POST', '/api/auth/login', { email: account('shipper').email, password: account('shipper').password })
-  await page.goto('/dispatch')
-  await expect(page.getByTestId('signed-in-as').first()).toContainText('shipper')
-}
+const signInAsShipper = (page: Page) => signInThroughApi(page, 'shipper', '/dispatch')
 
 /**
  * The heat check form filled in `unit`: the field's label names the unit once the page has taken the
@@ -197,7 +179,7 @@ test('the shipper packs and ships a collector\'s order from a phone; the collect
   await shootBoth(page, 'dispatch-order')
 
   // Shipped, found by its tracking number.
-  await page.goto('/dispatch?tab=shipped')
+  await open(page, '/dispatch?tab=shipped')
   await page.getByLabel('Order or tracking number').fill('RR123456785')
   await page.getByRole('button', { name: 'Search' }).click()
   await expect(page).toHaveURL(/q=RR123456785/)
@@ -207,7 +189,7 @@ test('the shipper packs and ships a collector\'s order from a phone; the collect
   // The collector's order page: shipped with the tracking number; the mail went exactly once.
   const customer = await collector.newPage()
   await customer.setViewportSize(phone)
-  await customer.goto(`/account/orders/${orderNumber}`)
+  await open(customer, `/account/orders/${orderNumber}`)
   await expect(customer.getByTestId('order-shipment')).toContainText('Shipped')
   await expect(customer.getByTestId('tracking-number')).toHaveText('RR123456785GB')
   await noSeriousAxe(customer)
@@ -235,7 +217,7 @@ test('the shipper packs and ships a collector\'s order from a phone; the collect
 
   const workshop = await maker.newPage()
   await workshop.setViewportSize(desktop)
-  await workshop.goto('/workshop')
+  await open(workshop, '/workshop')
   await workshop.getByRole('link', { name: /^Claims/ }).click()
   await expect(workshop.getByRole('heading', { level: 1 })).toHaveText('Breakage claims')
   const claim = workshop.locator('article').filter({ hasText: orderNumber })
@@ -268,6 +250,8 @@ test('an order held for heat cannot be packed and waits under "Held for heat"', 
   await heatCheck(page, '38', '3')
   await expect(page.getByTestId('heat-answer')).toContainText('Hold the parcel')
   await expect(page.getByTestId('heat-answer')).toContainText('Next day to ship')
+  // The day to look again with its weekday, in the shop's locale (en-US by default): "Mon, Dec 7".
+  await expect(page.getByTestId('heat-answer')).toContainText(/Next day to ship: (Mon|Tue|Wed|Thu|Fri|Sat|Sun), [A-Z][a-z]{2} \d{1,2}/)
   await expect(page.getByTestId('dispatch-status')).toHaveText('Held for heat')
   for (const box of await page.getByRole('group', { name: /Checklist/ }).getByRole('checkbox').all()) await box.check()
   await expect(page.getByRole('button', { name: 'Mark packed' })).toBeDisabled()
@@ -279,13 +263,13 @@ test('an order held for heat cannot be packed and waits under "Held for heat"', 
   const refused = await page.request.post(`/api/dispatch/${orderNumber}/pack`, { headers: { origin: site }, data: { checklist: detail.checklist.map((item: { id: string }) => item.id) } })
   expect(refused.status()).toBe(409)
 
-  await page.goto('/dispatch')
+  await open(page, '/dispatch')
   await expect(page.getByTestId(`dispatch-${orderNumber}`)).toHaveCount(0)
   await page.getByTestId('tab-held').click()
   await expect(page).toHaveURL(/tab=held/)
   const held = page.getByTestId(`dispatch-${orderNumber}`)
   await expect(held).toContainText('Hold the parcel')
-  await expect(held).toContainText('Look again')
+  await expect(held).toContainText(/Look again: (Mon|Tue|Wed|Thu|Fri|Sat|Sun), [A-Z][a-z]{2} \d{1,2}/)
   await noSeriousAxe(page)
 })
 

@@ -1,8 +1,8 @@
 // The guides (content/guides/): each opens from the list, shows its headings and cautions, links back,
 // runs under the site's Content Security Policy, and axe finds nothing serious on it; also at phone width.
-import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type Page } from '@playwright/test'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { noSeriousAxe } from './support/page'
+import { signIn } from './support/signIn'
 
 const shots = 'tests/browser/report'
 
@@ -21,18 +21,13 @@ function watchPolicy(page: Page) {
   return problems
 }
 
-async function seriousAxe(page: Page) {
-  const axe = await new AxeBuilder({ page }).analyze()
-  return axe.violations.filter(v => v.impact === 'serious' || v.impact === 'critical').map(v => `${v.id}: ${v.nodes.map(n => n.target.join(' ')).join(', ')}`)
-}
-
 test('the guides list opens each guide; each shows its headings and cautions and links back', async ({ page }) => {
   const problems = watchPolicy(page)
   await page.setViewportSize({ width: 1280, height: 900 })
   await page.goto('/guides')
   await page.waitForLoadState('networkidle')
   await expect(page.getByRole('heading', { level: 1, name: 'Guides' })).toBeVisible()
-  expect(await seriousAxe(page)).toEqual([])
+  await noSeriousAxe(page)
   for (const guide of guides) {
     await page.goto('/guides')
     await page.getByRole('main').getByRole('link', { name: guide.title }).click()
@@ -42,7 +37,7 @@ test('the guides list opens each guide; each shows its headings and cautions and
     await expect(page.getByText(guide.caution).first()).toBeVisible()
     await expect(page.getByText(/local codes and licensed practice come first/i).first()).toBeVisible()
     await page.waitForLoadState('networkidle')
-    expect(await seriousAxe(page), guide.slug).toEqual([])
+    await noSeriousAxe(page, guide.slug)
     await page.getByRole('link', { name: '← All guides' }).first().click()
     await expect(page).toHaveURL(/\/guides$/)
   }
@@ -59,7 +54,7 @@ test('a guide at phone width: no sideways scrolling, readable, nothing serious f
   await page.waitForLoadState('networkidle')
   await expect(page.getByRole('heading', { level: 1, name: 'Workshop safety' })).toBeVisible()
   expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390)
-  expect(await seriousAxe(page)).toEqual([])
+  await noSeriousAxe(page)
   await page.screenshot({ path: `${shots}/guide-workshop-safety-390.png`, fullPage: true })
   await page.setViewportSize({ width: 1280, height: 900 })
   await page.goto('/guides/care')
@@ -72,13 +67,7 @@ test('the product page links the care guide; the bench and the batches page link
   await page.goto('/cylinders')
   await page.getByRole('main').getByRole('link').filter({ hasText: /polka|waltz|ballad|blank/i }).first().click()
   await expect(page.getByRole('link', { name: 'the care guide' })).toHaveAttribute('href', '/guides/care')
-  const maker = demoAccounts.find(a => a.role === 'maker')!
-  await page.goto('/signin')
-  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
-  await page.getByLabel('E-mail').fill(maker.email)
-  await page.getByLabel('Password').fill(maker.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
+  await signIn(page, 'maker')
   for (const path of ['/workshop/bench', '/workshop/batches']) {
     await page.goto(path)
     await expect(page.locator('main a[href="/guides/workshop-safety"]').first(), path).toBeVisible()

@@ -1,30 +1,18 @@
-import AxeBuilder from '@axe-core/playwright'
-import { expect, test, type Page } from '@playwright/test'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { expect, test } from '@playwright/test'
+import { noSeriousAxe, open } from './support/page'
+import { signIn } from './support/signIn'
 
 const shots = 'tests/browser/report'
-
-async function signIn(page: Page, role: string) {
-  const account = demoAccounts.find(a => a.role === role)!
-  await page.goto('/signin')
-  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
-  await page.getByLabel('E-mail').fill(account.email)
-  await page.getByLabel('Password').fill(account.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await expect(page.getByTestId('signed-in-as')).toContainText(role)
-  return account
-}
 
 test('the home page is tidy at desktop and phone widths, and axe finds nothing serious', async ({ page }) => {
   await page.setViewportSize({ width: 1280, height: 900 })
   await page.goto('/')
   await expect(page.getByRole('heading', { level: 1 })).toContainText('New wax cylinders')
   await page.screenshot({ path: `${shots}/home-desktop.png`, fullPage: true })
-  const desktop = await new AxeBuilder({ page }).analyze()
-  expect(desktop.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')).toEqual([])
+  await noSeriousAxe(page)
 
   await page.setViewportSize({ width: 390, height: 844 })
-  await page.goto('/')
+  await open(page, '/')
   const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)
   expect(overflow).toBeLessThanOrEqual(0)
   await expect(page.getByRole('navigation', { name: 'Main' })).toBeHidden()
@@ -84,7 +72,7 @@ test('registration shows the field that needs fixing, then signs the collector i
 test('the shipper\'s dispatch queue lists what to pack, where it goes and the boxes, with no prices', async ({ page }) => {
   await page.setViewportSize({ width: 390, height: 844 })
   await signIn(page, 'shipper')
-  await page.goto('/dispatch')
+  await open(page, '/dispatch')
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Dispatch')
   // The demo has one order ready to pack and one packed (invented scenario).
   const ready = page.getByRole('region', { name: /Ready to pack \(\d+\)/ })
@@ -98,6 +86,5 @@ test('the shipper\'s dispatch queue lists what to pack, where it goes and the bo
   await expect(page.locator('main')).not.toContainText('$')
   expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
   await page.screenshot({ path: `${shots}/dispatch-phone.png`, fullPage: true })
-  const axe = await new AxeBuilder({ page }).analyze()
-  expect(axe.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')).toEqual([])
+  await noSeriousAxe(page)
 })

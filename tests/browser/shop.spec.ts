@@ -1,22 +1,17 @@
-import AxeBuilder from '@axe-core/playwright'
 import { expect, test, type Page } from '@playwright/test'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { awake, noSeriousAxe, open } from './support/page'
+import { signIn } from './support/signIn'
 
 const shots = 'tests/browser/report'
 const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
 const inbox = `http://127.0.0.1:${port + 1002}`
 
-async function noSeriousAxe(page: Page) {
-  const result = await new AxeBuilder({ page }).analyze()
-  const serious = result.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')
-  expect(serious.map(v => `${v.id}: ${v.nodes.map(n => n.target.join(' ')).join(', ')}`)).toEqual([])
-}
-
 async function addFirstInStock(page: Page, kind: 'recorded' | 'blank') {
-  await page.goto(`/cylinders?kind=${kind}`)
+  await open(page, `/cylinders?kind=${kind}`)
   const cards = page.locator('article').filter({ hasNot: page.getByText('Sold out') })
   await cards.first().getByRole('heading').getByRole('link').click()
   await expect(page).toHaveURL(/\/cylinders\/[a-z0-9-]+$/)
+  await awake(page)
   await expect(page.getByRole('button', { name: 'Add to cart' })).toBeVisible()
   const title = (await page.getByRole('heading', { level: 1 }).textContent())!.trim()
   await page.getByRole('button', { name: 'Add to cart' }).click()
@@ -36,16 +31,12 @@ test('a guest buys a recorded cylinder and a blank, pays on the local checkout p
   await noSeriousAxe(page)
   const blank = await addFirstInStock(page, 'blank')
 
-  await page.goto('/cart')
+  await open(page, '/cart')
   await expect(page.getByRole('link', { name: recorded })).toBeVisible()
   await expect(page.getByRole('link', { name: blank })).toBeVisible()
   await expect(page.getByTestId('cart-total')).toContainText('$')
   const email = `guest-${Date.now()}@collectors.test`
-  await page.getByLabel('E-mail').fill(email)
-  await page.locator('input[name="name"]').fill('Wren Holloway')
-  await page.locator('input[name="line1"]').fill('9 Quill Lane')
-  await page.getByLabel('Postal code').fill('LM2 4AB')
-  await page.getByLabel('Town or city').fill('Lowmere')
+  await fillAddress(page, email)
   // The shop decides the zone and the tax from the address: abroad, then at home in the home state, then elsewhere at home.
   await page.getByLabel('Country').selectOption('DE')
   await expect(page.getByTestId('cart-place')).toContainText('Ships as Rest of the world; No sales tax collected')
@@ -89,6 +80,7 @@ test('the shop pages are tidy at phone width', async ({ page }) => {
   await page.screenshot({ path: `${shots}/catalogue-phone.png`, fullPage: true })
   await page.locator('article').first().getByRole('heading').getByRole('link').click()
   await expect(page.getByRole('heading', { level: 1 })).toBeVisible()
+  await awake(page)
   expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0)
   await page.screenshot({ path: `${shots}/product-phone.png`, fullPage: true })
   const addButton = page.getByRole('button', { name: 'Add to cart' })
@@ -112,7 +104,7 @@ const noSideways = async (page: Page) => expect(await page.evaluate(() => docume
 test('at phone width: cancelling on the payment page gives the order up; paying shows a tidy order page, for the customer and the maker', async ({ page }) => {
   await page.setViewportSize({ width: 390, height: 844 })
   const blank = await addFirstInStock(page, 'blank')
-  await page.goto('/cart')
+  await open(page, '/cart')
   await expect(page.getByRole('link', { name: blank })).toBeVisible()
   await expect(page.getByText(/We hold your cylinders for \d+ (minutes|hours)/)).toBeVisible()
   await fillAddress(page, `phone-${Date.now()}@collectors.test`)
@@ -158,13 +150,7 @@ test('at phone width: cancelling on the payment page gives the order up; paying 
   await noSeriousAxe(page)
 
   // The maker's view of the same order, with the refund form choosing what goes back on sale.
-  const maker = demoAccounts.find(account => account.role === 'maker')!
-  await page.goto('/signin')
-  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
-  await page.getByLabel('E-mail').fill(maker.email)
-  await page.getByLabel('Password').fill(maker.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
+  await signIn(page, 'maker')
   await page.goto(`/workshop/orders/${orderNumber}`)
   await expect(page.getByRole('heading', { name: 'Refund' })).toBeVisible()
   await expect(page.getByRole('group', { name: 'Back on sale' }).getByLabel(blank)).toBeVisible()

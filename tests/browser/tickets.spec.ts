@@ -1,27 +1,12 @@
-import AxeBuilder from '@axe-core/playwright'
-import { expect, test, type APIRequestContext, type Page } from '@playwright/test'
+import { expect, test, type APIRequestContext } from '@playwright/test'
 import { makeSurfaceWav } from '../../server/audio/synth'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { noSeriousAxe, open } from './support/page'
+import { signIn } from './support/signIn'
 
 const shots = 'tests/browser/report'
 const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
 const site = `http://localhost:${port}`
 const paymentFake = `http://127.0.0.1:${port + 1003}`
-
-async function noSeriousAxe(page: Page) {
-  const result = await new AxeBuilder({ page }).analyze()
-  const serious = result.violations.filter(v => v.impact === 'serious' || v.impact === 'critical')
-  expect(serious.map(v => `${v.id}: ${v.nodes.map(n => n.target.join(' ')).join(', ')}`)).toEqual([])
-}
-
-async function signInAsMaker(page: Page) {
-  const maker = demoAccounts.find(a => a.role === 'maker')!
-  await page.goto('/signin')
-  await page.getByLabel('E-mail').fill(maker.email)
-  await page.getByLabel('Password').fill(maker.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
-}
 
 /** The maker's API calls as the page would make them: its cookies and this site's Origin. */
 async function api(request: APIRequestContext, method: 'GET' | 'POST', path: string, body?: Record<string, unknown>) {
@@ -61,7 +46,7 @@ test('the maker takes a paid order from the board to dispatch: a tested blank, t
   const pageErrors: string[] = []
   page.on('pageerror', error => pageErrors.push(error.message))
   await page.setViewportSize({ width: 1280, height: 900 })
-  await signInAsMaker(page)
+  await signIn(page, 'maker')
   const blankCode = await testedFourMinuteBlank(page.request)
   const recorders = await api(page.request, 'GET', '/api/workshop/recorders')
   if (!recorders.recorders.some((recorder: { inService: boolean }) => recorder.inService)) {
@@ -69,7 +54,7 @@ test('the maker takes a paid order from the board to dispatch: a tested blank, t
   }
   const orderNumber = await paidMadeToOrder(page.request)
 
-  await page.goto('/workshop')
+  await open(page, '/workshop')
   await page.getByRole('link', { name: /Production tickets/ }).click()
   await expect(page.getByRole('heading', { level: 1 })).toHaveText('Production tickets')
   const queued = page.getByTestId('column-queued').locator('article').filter({ hasText: orderNumber })
@@ -142,7 +127,7 @@ test('the board marks a recut ticket with its reason, and the stage filter finds
   const pageErrors: string[] = []
   page.on('pageerror', error => pageErrors.push(error.message))
   await page.setViewportSize({ width: 1280, height: 900 })
-  await signInAsMaker(page)
+  await signIn(page, 'maker')
   const blankCode = await testedFourMinuteBlank(page.request)
   const { recorders } = await api(page.request, 'GET', '/api/workshop/recorders')
   const recorder = recorders.find((candidate: { inService: boolean }) => candidate.inService)
@@ -157,7 +142,7 @@ test('the board marks a recut ticket with its reason, and the stage filter finds
   await api(page.request, 'POST', `/api/workshop/tickets/${ticketId}/cut`, { recorderId: recorder.id })
   await api(page.request, 'POST', `/api/workshop/tickets/${ticketId}/stage`, { to: 'recut', note: 'A thump on the third turn.' })
 
-  await page.goto('/workshop/tickets')
+  await open(page, '/workshop/tickets')
   await page.getByLabel('Stage').selectOption('recut')
   await expect(page).toHaveURL(/stage=recut/)
   const card = page.getByTestId(`ticket-${ticketId}`)

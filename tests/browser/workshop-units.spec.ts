@@ -1,5 +1,6 @@
 import { expect, test, type Page } from '@playwright/test'
-import { demoAccounts } from '../../shared/utils/demoAccounts'
+import { open } from './support/page'
+import { signIn } from './support/signIn'
 
 // The workshop reads and takes temperatures and weights in the shop's units: a pour typed in °F is
 // stored in °C and shown in °C first once the shop switches; the figures form converts both ways.
@@ -7,17 +8,6 @@ import { demoAccounts } from '../../shared/utils/demoAccounts'
 
 const shots = 'tests/browser/report'
 const sizes = [['phone', { width: 390, height: 844 }], ['desktop', { width: 1280, height: 900 }]] as const
-
-async function signInAsMaker(page: Page) {
-  const maker = demoAccounts.find(a => a.role === 'maker')!
-  await page.goto('/signin')
-  // The submit button is enabled once the page is hydrated: typing before that can be wiped.
-  await expect(page.getByRole('button', { name: 'Sign in' })).toBeEnabled()
-  await page.getByLabel('E-mail').fill(maker.email)
-  await page.getByLabel('Password').fill(maker.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await expect(page.getByTestId('signed-in-as')).toContainText('maker')
-}
 
 async function shoot(page: Page, path: string, name: string) {
   for (const [size, viewport] of sizes) {
@@ -31,7 +21,7 @@ async function shoot(page: Page, path: string, name: string) {
 test('batches and workshop figures follow the shop\'s units, in °F / lb and in °C / kg', async ({ page, baseURL }) => {
   test.setTimeout(120_000)
   await page.setViewportSize({ width: 1280, height: 900 })
-  await signInAsMaker(page)
+  await signIn(page, 'maker')
   const headers = { origin: baseURL! }
   const before = await (await page.request.get('/api/shop/units')).json()
   const setUnits = async (units: Record<string, string>) => {
@@ -44,7 +34,7 @@ test('batches and workshop figures follow the shop\'s units, in °F / lb and in 
 
     // A batch added through the form of a °F shop: the pour typed as 302 is 302 °F.
     const code = `UN-${Date.now().toString(36).toUpperCase()}`
-    await page.goto('/workshop/batches')
+    await open(page, '/workshop/batches')
     const form = page.locator('form').filter({ has: page.getByRole('button', { name: 'Add the batch' }) })
     await form.getByLabel('Batch code').fill(code)
     await form.getByLabel('Formula').fill('stearic acid 70 / paraffin 20 / carnauba 10')
@@ -71,13 +61,13 @@ test('batches and workshop figures follow the shop\'s units, in °F / lb and in 
     // The same shop in °C and kg.
     await setUnits({ temperature: 'C', length: 'mm', weight: 'kg', locale: 'en-GB' })
     await page.setViewportSize({ width: 1280, height: 900 })
-    await page.goto('/workshop/batches')
+    await open(page, '/workshop/batches')
     await expect(page.getByRole('row').filter({ hasText: code })).toContainText('poured 150 °C (302 °F)')
     await page.getByRole('button', { name: `Edit batch ${code}` }).click()
     const editForm = page.locator('form').filter({ has: page.getByRole('button', { name: 'Save the batch' }) })
     await expect(editForm.getByLabel('Poured at (°C)')).toHaveValue('150')
 
-    await page.goto('/workshop/figures')
+    await open(page, '/workshop/figures')
     await expect(page.getByLabel('Hold the parcel from (°C)')).toHaveValue(String(figures.heat.holdHighC))
     await expect(page.getByLabel('Stricter per extra day in transit (°C)')).toHaveValue(String(figures.heat.stricterPerTransitDayC))
     // A weight typed in kilograms is stored in grams; the figures left alone are stored as they were.
