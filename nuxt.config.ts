@@ -1,8 +1,11 @@
+import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 
 const migrationsDir = fileURLToPath(new URL('./drizzle', import.meta.url))
 // The guides' Markdown, bundled into the server as assets (server/utils/guides/guides.ts).
 const guidesDir = fileURLToPath(new URL('./content/guides', import.meta.url))
+// The surface analysis' second thread (server/audio/parallel.ts), bundled on its own beside the server's entry.
+const spectrumWorkerEntry = fileURLToPath(new URL('./server/audio/spectrumWorker.ts', import.meta.url))
 
 export default defineNuxtConfig({
   modules: ['@nuxtjs/tailwindcss', 'nuxt-auth-utils', '@nuxt/image', '@nuxt/eslint', 'nuxt-security', '@nuxtjs/mdc'],
@@ -193,6 +196,22 @@ export default defineNuxtConfig({
     strict: true,
   },
   telemetry: false,
+  hooks: {
+    'nitro:init'(nitro) {
+      nitro.hooks.hook('compiled', async () => {
+        const { build } = await import('esbuild')
+        await build({
+          entryPoints: [spectrumWorkerEntry],
+          outfile: join(nitro.options.output.serverDir, 'audio-spectrum-worker.mjs'),
+          bundle: true,
+          platform: 'node',
+          format: 'esm',
+          target: 'node20',
+          logLevel: 'warning',
+        })
+      })
+    },
+  },
   // Who is signed in comes from our own /api/auth/me (app/plugins/current-user.ts); the module's session
   // fetch on every render and its client plugin are not used.
   auth: { loadStrategy: 'none' },

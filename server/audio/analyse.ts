@@ -75,6 +75,7 @@ function plotEnvelope(frameEnergy: Float64Array, frameLength: number, totalSampl
 export function analyseSurfaceSource(
   source: MonoSampleSource,
   options: SurfaceAnalysisOptions = {},
+  spectrumOf: (source: MonoSampleSource) => SpectrumBand[] = measureSpectrum,
 ): Omit<SurfaceAnalysis, 'channels' | 'bitsPerSample' | 'sampleFormat'> {
   const rpm = options.rpm ?? DEFAULT_SURFACE_RPM
   if (!(rpm >= 30 && rpm <= 300)) throw new RangeError(`rpm must be between 30 and 300, got ${rpm}`)
@@ -130,7 +131,7 @@ export function analyseSurfaceSource(
     clickTimesS: clicks.timesS,
     verdict,
     reasons,
-    spectrum: measureSpectrum(source),
+    spectrum: spectrumOf(source),
     envelope,
     envelopeSeconds: (framesPerPoint * frameLength) / sampleRate,
   }
@@ -151,9 +152,9 @@ export function countClicks(samples: Float32Array, sampleRate: number): ClickRes
  * Analyse a surface-test WAV upload. Throws AudioInputError (with `statusCode`) for files we
  * cannot read, a ZodError for invalid thresholds and a RangeError for an impossible rpm.
  */
-export function analyseSurfaceWav(bytes: Uint8Array, options: SurfaceAnalysisOptions = {}): SurfaceAnalysis {
+export function analyseSurfaceWav(bytes: Uint8Array, options: SurfaceAnalysisOptions = {}, spectrumOf?: (source: MonoSampleSource) => SpectrumBand[]): SurfaceAnalysis {
   const decoded = decodeWav(bytes)
-  const measured = analyseSurfaceSource(decoded, options)
+  const measured = analyseSurfaceSource(decoded, options, spectrumOf)
   return {
     ...measured,
     channels: decoded.channels,

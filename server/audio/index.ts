@@ -2,6 +2,7 @@
 // `import { analyseSurfaceWav, AudioInputError } from '~~/server/audio'`.
 export { analyseSurfaceWav, analyseSurfaceSamples, analyseSurfaceSource, countClicks, DEFAULT_SURFACE_RPM, ENVELOPE_MAX_POINTS } from './analyse'
 export type { SurfaceAnalysis, SurfaceAnalysisOptions } from './analyse'
+export { analyseSurfaceWavInParallel } from './parallel'
 export { decodeWav, decodeWavSamples, monoSourceFromSamples, AudioInputError, SURFACE_WAV_LIMITS } from './decode'
 export type { AudioInputStatus, DecodedWav, MonoSampleSource, WavSampleFormat } from './decode'
 export { aWeightingDb, aWeightingPowerGain, aWeightingFilterResponseDb, designAWeightingFilter, A_WEIGHTING_POLES_HZ } from './aWeighting'

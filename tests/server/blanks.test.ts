@@ -71,7 +71,7 @@ async function upload(client: Client | null, path: string, file: { name: string,
     body = JSON.parse(text)
   }
   catch { /* not JSON */ }
-  return { status: response.status, body }
+  return { status: response.status, body, headers: response.headers }
 }
 
 // Synthetic play-throughs with known answers (server/audio/synth.ts): 8 s at 22.05 kHz.
@@ -422,6 +422,8 @@ describe('POST /api/workshop/surface-tests/analyse', () => {
     }
     expect(answer.body).toEqual(JSON.parse(JSON.stringify(analyseSurfaceWav(bytes, { rpm: 144 }))))
     expect(answer.body.spectrum[0]).toEqual({ hz: expect.any(Number), db: expect.any(Number) })
+    // The built server measures the spectrum on its second thread (server/audio/parallel.ts), and says so.
+    expect(answer.headers.get('server-timing')).toMatch(/^analysis;dur=\d+(\.\d+)?;desc="2 threads"$/)
   })
 
   it('refuses what it cannot read with the right 4xx and a message', async () => {

@@ -238,12 +238,14 @@ function streamMultipart(event: H3Event, purpose: UploadPurpose, { signal }: Upl
         return
       }
       // One buffer of the body's declared size (its pages are only touched as bytes arrive), each piece copied
-      // into it as it comes: the file is copied once, while the rest is still on its way.
+      // into it as it comes: the file is copied once, while the rest is still on its way. A surface test's goes
+      // into shared memory, which the analysis' second thread reads without a copy (server/audio/parallel.ts).
       let data: Buffer | undefined
       let size = 0
       stream.on('data', (chunk: Buffer) => {
         if (settled) return
-        data ??= Buffer.alloc(Math.min(maxBytes, declaredBytes))
+        const bytes = Math.min(maxBytes, declaredBytes)
+        data ??= purpose === 'surface_test' ? Buffer.from(new SharedArrayBuffer(bytes)) : Buffer.alloc(bytes)
         if (size + chunk.byteLength > data.byteLength) return fail(tooLarge(purpose))
         chunk.copy(data, size)
         size += chunk.byteLength

@@ -1,6 +1,7 @@
+import type { H3Event } from 'h3'
 import type { ZodType } from 'zod'
 import { surfaceTests } from '../../db/schema'
-import { analyseSurfaceWav, AudioInputError, incompleteCoverageReason, surfaceCoverage, type SurfaceAnalysis, type SurfaceAnalysisOptions, type SurfaceThresholds } from '../../audio'
+import { analyseSurfaceWavInParallel, AudioInputError, incompleteCoverageReason, surfaceCoverage, type SurfaceAnalysis, type SurfaceAnalysisOptions, type SurfaceThresholds } from '../../audio'
 import { cylinderFormatTable, playingTimeMinutes, type CylinderFormat } from '#shared/utils/cylinder'
 import type { EngineSettings } from '#shared/utils/engineSettings'
 import type { BlankRow, SurfaceTestRow } from '#shared/types/rows'
@@ -28,10 +29,16 @@ export function surfaceFieldsWith<T>(fields: Record<string, string>, schema: Zod
   })
 }
 
-/** The audio engine's analysis; a file it cannot read answers with its status and its message. */
-export function analyseSurfaceUpload(bytes: Uint8Array, options: SurfaceAnalysisOptions): SurfaceAnalysis {
+/**
+ * The audio engine's analysis (on two threads where it can); a file it cannot read answers with its status and its
+ * message. The answer's Server-Timing header gives the analysis' time and how many threads it took.
+ */
+export async function analyseSurfaceUpload(event: H3Event, bytes: Uint8Array, options: SurfaceAnalysisOptions): Promise<SurfaceAnalysis> {
   try {
-    return analyseSurfaceWav(bytes, options)
+    const started = performance.now()
+    const { analysis, threads } = await analyseSurfaceWavInParallel(bytes, options)
+    setResponseHeader(event, 'server-timing', `analysis;dur=${(performance.now() - started).toFixed(1)};desc="${threads} thread${threads === 1 ? '' : 's'}"`)
+    return analysis
   }
   catch (error) {
     if (error instanceof AudioInputError) {

@@ -14,7 +14,7 @@ export default defineEventHandler(async (event) => {
   const { format, ...fields } = upload.fields
   const { rpm } = surfaceFieldsWith(fields, surfaceAnalyseFieldsSchema)
   const { format: cylinder } = surfaceFieldsWith({ format: format ?? '' }, formatFieldSchema)
-  const analysis = analyseSurfaceUpload(upload.file!.data, { rpm, thresholds })
+  const analysis = await analyseSurfaceUpload(event, upload.file!.data, { rpm, thresholds })
   // Given the format, a take too short to cover the surface is judged incomplete, as on a blank.
   return cylinder ? judgeSurfaceCoverage(analysis, cylinder, rpm, await getSetting('engine'), thresholds) : analysis
 })

@@ -16,7 +16,7 @@ export default defineEventHandler(async (event) => {
   const fields = surfaceFieldsWith(upload.fields, surfaceTestUploadFieldsSchema)
   const thresholds = await getSetting('surface', db)
   // A take shorter than the shop's share of the surface's playing time is stored as incomplete.
-  const analysis = judgeSurfaceCoverage(analyseSurfaceUpload(file.data, { rpm: fields.rpm, thresholds }), found.format, fields.rpm, await getSetting('engine', db), thresholds)
+  const analysis = judgeSurfaceCoverage(await analyseSurfaceUpload(event, file.data, { rpm: fields.rpm, thresholds }), found.format, fields.rpm, await getSetting('engine', db), thresholds)
   if (analysis.rotaryDb === null) {
     const seconds = Math.ceil((MIN_ROTATIONS_FOR_ROTARY * 60) / fields.rpm) + 1
     throw createError({ statusCode: 422, statusMessage: 'Unprocessable Content', message: `file: the recording is ${analysis.durationS.toFixed(1)} s long, too short to judge once-per-turn noise; record at least ${seconds} s of the play-through.`, data: { fields: { file: `record at least ${seconds} s` } } })
