@@ -119,7 +119,7 @@ describe('fuzzing every route', () => {
       return pool[n % pool.length]!
     }
 
-    const jobs: (() => Promise<Outcome>)[] = []
+    const jobs: { route: string, caller: string, run: () => Promise<Outcome> }[] = []
     let n = 0
     const fuzzed = routes.filter(r => !signsOut(r))
     for (const route of fuzzed) {
@@ -132,11 +132,16 @@ describe('fuzzing every route', () => {
           const target = query && k % 2 === 0 ? `${path}?${query}` : path
           const body = bodies[k % bodies.length]!
           const useUpload = route.method === 'POST' && uploadRoutes.test(route.pattern) && k % 2 === 1
-          jobs.push(async () => {
-            const status = useUpload
-              ? await sendUpload(client, target, (body.json && typeof body.json === 'object' ? body.json : {}) as Record<string, unknown>, fileNames[k % fileNames.length]!, fileBytes[k % fileBytes.length]!)
-              : await send(client, route.method, target, body)
-            return { status, route: `${route.method} ${target.slice(0, 160)}`, caller: callerName, detail: useUpload ? 'multipart' : JSON.stringify(body).slice(0, 200) }
+          const described = `${route.method} ${target.slice(0, 160)}${useUpload ? ' (multipart)' : ''}`
+          jobs.push({
+            route: described,
+            caller: callerName,
+            run: async () => {
+              const status = useUpload
+                ? await sendUpload(client, target, (body.json && typeof body.json === 'object' ? body.json : {}) as Record<string, unknown>, fileNames[k % fileNames.length]!, fileBytes[k % fileBytes.length]!)
+                : await send(client, route.method, target, body)
+              return { status, route: described, caller: callerName, detail: useUpload ? 'multipart' : JSON.stringify(body).slice(0, 200) }
+            },
           })
         }
       }
@@ -149,12 +154,14 @@ describe('fuzzing every route', () => {
       for (let job = jobs.shift(); job; job = jobs.shift()) {
         sent++
         try {
-          const outcome = await job()
+          const outcome = await job.run()
           if (outcome.status >= 500) failures.push(outcome)
         }
         catch (error) {
           dropped++
-          failures.push({ status: 0, route: String(error), caller: '', detail: '' })
+          // fetch's own error says only "fetch failed"; its cause says how (reset, closed, timed out).
+          const cause = (error as { cause?: { code?: string, message?: string } }).cause
+          failures.push({ status: 0, route: job.route, caller: job.caller, detail: `${String(error)}: ${cause?.code ?? ''} ${cause?.message ?? ''}`.trim() })
         }
       }
     }
