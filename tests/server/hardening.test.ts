@@ -169,6 +169,19 @@ describe('one setting for the shop\'s address', () => {
   })
 })
 
+describe('idle connections', () => {
+  it('are kept 65 s, longer than clients and proxies keep theirs, so none sends on one the server has closed', async () => {
+    await fetch(url('/api/health'))
+    const header = await new Promise<string | undefined>((resolve, reject) => {
+      httpGet(url('/api/health'), { headers: { connection: 'keep-alive' } }, (response) => {
+        response.resume()
+        resolve(response.headers['keep-alive'])
+      }).on('error', reject)
+    })
+    expect(header).toBe('timeout=65')
+  })
+})
+
 /** fetch() will not send a Host of our choosing; node:http will. */
 function bodyFor(path: string, headers: Record<string, string>): Promise<string> {
   return new Promise((resolve, reject) => {
