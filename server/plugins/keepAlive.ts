@@ -11,7 +11,7 @@ export default defineNitroPlugin((nitroApp) => {
   nitroApp.hooks.hook('request', (event) => {
     if (done) return
     // The listening server is reachable from any of its sockets (`socket.server`); the entry does not expose it.
-    const server = (event.node.req.socket as { server?: Server }).server
+    const server = (event.node.req.socket as unknown as { server?: Server }).server
     if (!server || typeof server.keepAliveTimeout !== 'number') return
     server.keepAliveTimeout = KEEP_ALIVE_MS
     server.headersTimeout = Math.max(server.headersTimeout, KEEP_ALIVE_MS + 1_000)
