@@ -3,7 +3,7 @@
  * line under it, the button, the prompt shown until there is an answer, a standing caution (its
  * first words in bold), where the work can go wrong for good, and the rule the answer is worked out by,
  * at the card's foot. A rule that names the room temperature fit is judged at (about 75 °F) is given it
- * written in the shop's units.
+ * written in the shop's units. A calculator that gives a verdict has the words and colour of each one.
  */
 interface BenchWords {
   short: string
@@ -13,6 +13,7 @@ interface BenchWords {
   prompt: string
   caution?: { title: string, text: string }
   rule: string | ((room: string) => string)
+  verdicts?: Record<string, { label: string, tone: 'good' | 'care' | 'bad' }>
 }
 
 /** The bench calculators in the order the page shows them, each under the anchor its card is found at. */
@@ -61,6 +62,7 @@ const words = {
     rule: 'Words are counted as a reader says them (“1905” is three words, “42” two) at the shop\'s speaking rate, about '
       + '150 words a minute (from memory), plus a silent lead-in and run-out. The format holds its recordable length\'s '
       + 'playing time; within the last tenth of it a message is tight.',
+    verdicts: { fits: { label: 'Fits', tone: 'good' }, tight: { label: 'Tight', tone: 'care' }, too_long: { label: 'Too long', tone: 'bad' } },
   },
   'heat-fit': {
     short: 'Heat and fit',
@@ -82,6 +84,7 @@ const words = {
     rule: 'The shop sets a caution and a hold threshold for the forecast high; both drop a little for each day in transit '
       + 'beyond the first, since every day is another afternoon in a van, and van interiors can reach about 60 °C '
       + '(shipping guidance). Parcels go early in the week so they are not left in a depot over the weekend.',
+    verdicts: { ok: { label: 'OK to ship', tone: 'good' }, caution: { label: 'Ship with care', tone: 'care' }, hold: { label: 'Hold the parcel', tone: 'bad' } },
   },
 } satisfies Record<string, BenchWords>
 
