@@ -1,6 +1,7 @@
 import { defineConfig } from '@playwright/test'
 
 const port = Number(process.env.BROWSER_TEST_PORT ?? 3100)
+const mailDir = `.data/browser-test-mail-${port}`
 
 // Debian's Chromium, never a downloaded browser; the launcher starts the fakes and the built server
 // on its own ports with a fresh in-memory database.
@@ -20,7 +21,9 @@ export default defineConfig({
   },
   projects: [{ name: 'chromium', use: { browserName: 'chromium' } }],
   webServer: {
-    command: 'node --import tsx scripts/start.mjs',
+    // The fake inbox starts empty, as the database does: mails kept from an earlier local run on this port would
+    // carry the same order numbers and be counted twice.
+    command: `rm -rf ${mailDir} && node --import tsx scripts/start.mjs`,
     cwd: '../..',
     url: `http://127.0.0.1:${port}/api/health`,
     timeout: 240_000,
@@ -34,7 +37,7 @@ export default defineConfig({
       NUXT_MAIL_POLL_MS: '200',
       MAIL_FAKE_SMTP_PORT: String(port + 1001),
       MAIL_FAKE_HTTP_PORT: String(port + 1002),
-      MAIL_FAKE_DIR: `.data/browser-test-mail-${port}`,
+      MAIL_FAKE_DIR: mailDir,
       STRIPE_FAKE_PORT: String(port + 1003),
     },
   },
