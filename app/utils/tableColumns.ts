@@ -1,3 +1,5 @@
+import type { RouteLocationRaw } from 'vue-router'
+
 /**
  * One column of a `<UiDataTable>`: its heading, the row's value under `key` (or its `text`, and a
  * `detail` line under it) unless the table's caller fills the cell through a slot of that name, and how
@@ -22,4 +24,8 @@ export interface TableColumn<Row = never> {
   text?(row: Row): string | number
   /** A quieter line under the text (the other unit, an e-mail under a name), left out when empty. */
   detail?(row: Row): string | undefined
+  /** The detail line's colour where it is a warning rather than a quieter word (default: muted). */
+  detailClass?: string
+  /** Where the cell's text leads (the row's own page), or nothing for plain text. */
+  link?(row: Row): RouteLocationRaw | undefined
 }
