@@ -8,6 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startMailFake } from '../../fakes/mail/server'
 import { startS3Fake } from '../../fakes/s3/server'
 import { startStripeFake } from '../../fakes/stripe/server'
+import { makeSurfaceWav } from '../../server/audio'
 import { demoAccounts } from '../../shared/utils/demoAccounts'
 import { freePort, rootDir, waitFor } from './harness'
 
@@ -228,6 +229,21 @@ describe.skipIf(!pgBin)(pgBin ? 'several instances behind one address' : 'severa
     expect(beyond.headers.get('content-range')).toBe(`bytes */${bytes.byteLength}`)
     // The object is in the bucket's folder, not on either instance's disk.
     expect(JSON.stringify(readdirSync(join(bucket.dir, bucket.bucket), { recursive: true }))).toContain(id)
+  })
+
+  it('a surface test\'s recording (held in shared memory for the analysis) is stored in the bucket and served by the other instance', async () => {
+    const client = await signedInMaker(0)
+    const register = await client.call('/api/workshop/blanks?state=shaved&pageSize=5')
+    const code = (register.body.blanks ?? register.body.items ?? register.body.rows)[0].code as string
+    const wav = makeSurfaceWav({ seconds: 8, sampleRate: 22_050, levelDbfs: -50, seed: 4 })
+    const form = new FormData()
+    form.append('file', new Blob([new Uint8Array(wav)], { type: 'audio/wav' }), 'play-through.wav')
+    const sent = await fetch(`${instances[0]!.base}/api/workshop/blanks/${code}/surface-tests`, { method: 'POST', body: form, headers: { origin: site, cookie: client.cookie, accept: 'application/json' } })
+    expect(sent.status, await sent.clone().text()).toBe(201)
+    const { fileUrl } = await sent.json() as { fileUrl: string }
+    const stored = await fetch(`${instances[1]!.base}${fileUrl}`, { headers: { cookie: client.cookie } })
+    expect(stored.status).toBe(200)
+    expect(Buffer.from(await stored.arrayBuffer())).toEqual(Buffer.from(wav))
   })
 
   it('40 concurrent checkouts for the last one in stock, split across both instances: exactly one sells', { timeout: 60_000 }, async () => {

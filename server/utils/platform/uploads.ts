@@ -383,7 +383,9 @@ async function reencodePhoto(bytes: Buffer): Promise<Prepared> {
 export async function storeFile(db: Database | Transaction, input: { id?: string, data: Uint8Array, mime: string, purpose: string, originalName: string, isPublic: boolean, uploadedBy: number | null }): Promise<StoredFileRow> {
   const id = input.id ?? newFileId()
   const storage = await uploadStorage()
-  await storage.setItemRaw(id, input.data)
+  // Shared memory (a surface test's upload, which the analysis' second thread reads) is copied out first:
+  // fetch, and so the S3 driver, refuses a body on a SharedArrayBuffer.
+  await storage.setItemRaw(id, input.data.buffer instanceof SharedArrayBuffer ? new Uint8Array(input.data) : input.data)
   try {
     const [row] = await db.insert(files).values({
       id,
