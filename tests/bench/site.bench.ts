@@ -51,7 +51,8 @@ const sleep = (ms: number) => new Promise(done => setTimeout(done, ms))
 async function startServer() {
   const port = await freePort()
   const dataDir = mkdtempSync(join(tmpdir(), 'gw-bench-'))
-  const server = spawn(process.execPath, [join(outputDir, 'server/index.mjs')], {
+  // The V8 heap ceiling and malloc settings below are those of `npm start` and `npm run serve`.
+  const server = spawn(process.execPath, ['--max-old-space-size=256', join(outputDir, 'server/index.mjs')], {
     env: {
       ...process.env,
       PORT: String(port),
@@ -66,6 +67,8 @@ async function startServer() {
       NUXT_MAIL_POLL_MS: '60000',
       // As `npm start` and `npm run serve` run it (README › Configuration).
       MALLOC_ARENA_MAX: process.env.MALLOC_ARENA_MAX ?? '2',
+      MALLOC_TRIM_THRESHOLD_: process.env.MALLOC_TRIM_THRESHOLD_ ?? '131072',
+      MALLOC_MMAP_THRESHOLD_: process.env.MALLOC_MMAP_THRESHOLD_ ?? '131072',
     },
     stdio: ['ignore', 'ignore', 'inherit'],
   })
