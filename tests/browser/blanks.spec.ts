@@ -171,3 +171,25 @@ test('a label prints the code as a barcode with batch and format', async ({ page
   await expect(page.getByRole('button', { name: 'Print the label' })).toBeHidden()
   await page.screenshot({ path: `${shots}/blanks-label-print.png` })
 })
+
+test('saving a blank\'s details after a shaving on the same visit keeps the diameter the shaving left', async ({ page, baseURL }) => {
+  await signIn(page, 'maker')
+  const { cast } = await prepareBlanks(page, baseURL!)
+  const reamed = await page.request.post(`/api/workshop/blanks/${cast}/reaming`, { data: { overhangBeforeIn: '3/16', overhangAfterIn: '7/16', reamings: 4, roomTemperatureF: 74 }, headers: { origin: baseURL! } })
+  expect(reamed.status()).toBe(201)
+  await page.goto(`/workshop/blanks/${cast}`)
+  const shaving = page.getByRole('region', { name: 'Record a shaving' })
+  await expect(shaving.getByRole('button', { name: 'Record the shaving' })).toBeEnabled()
+  await shaving.getByLabel('Diameter after').fill('2.200')
+  await shaving.getByRole('button', { name: 'Record the shaving' }).click()
+  await expect(page.getByText('Shaving recorded: surface 1 at 2.200 in.')).toBeVisible()
+
+  // The details form was filled when the page opened (2.206 in): saving a note must not write that back.
+  await page.getByText('Where it is, notes, diameter').click()
+  await page.getByLabel('Notes').last().fill('Shaved on the old lathe')
+  await page.getByRole('button', { name: 'Save the details' }).click()
+  await expect(page.getByText('Saved: notes.')).toBeVisible()
+  const blank = await (await page.request.get(`/api/workshop/blanks/${cast}`)).json()
+  expect(blank.blank.diameterIn).toBeCloseTo(2.2, 6)
+  expect(blank.blank.notes).toBe('Shaved on the old lathe')
+})
