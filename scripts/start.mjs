@@ -74,8 +74,9 @@ run('payments', ['--import', 'tsx', 'fakes/stripe/server.ts'], {
   STRIPE_FAKE_WEBHOOK_URL: `http://127.0.0.1:${port}/api/webhooks/stripe`,
 })
 // A 256 MB ceiling for V8's old generation (what V8 picks by itself on a 1 GB machine; the server's live heap
-// is about 65 MB) makes it collect before it grows: about 130 MB less resident memory under load.
-run('server', ['--max-old-space-size=256', `${outputDir}/server/index.mjs`], {
+// is about 65 MB) makes it collect before it grows: about 130 MB less resident memory under load. GW_HEAP_MB
+// changes it (README › Configuration).
+run('server', [`--max-old-space-size=${process.env.GW_HEAP_MB ?? '256'}`, `${outputDir}/server/index.mjs`], {
   PORT: String(port),
   HOST: process.env.HOST ?? '127.0.0.1',
   NUXT_SESSION_PASSWORD: sessionPassword,

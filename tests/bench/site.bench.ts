@@ -52,7 +52,7 @@ async function startServer() {
   const port = await freePort()
   const dataDir = mkdtempSync(join(tmpdir(), 'gw-bench-'))
   // The V8 heap ceiling and malloc settings below are those of `npm start` and `npm run serve`.
-  const server = spawn(process.execPath, ['--max-old-space-size=256', join(outputDir, 'server/index.mjs')], {
+  const server = spawn(process.execPath, [`--max-old-space-size=${process.env.GW_HEAP_MB ?? '256'}`, join(outputDir, 'server/index.mjs')], {
     env: {
       ...process.env,
       PORT: String(port),
