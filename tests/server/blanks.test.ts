@@ -426,6 +426,22 @@ describe('POST /api/workshop/surface-tests/analyse', () => {
     expect(answer.headers.get('server-timing')).toMatch(/^analysis;dur=\d+(\.\d+)?;desc="2 threads"$/)
   })
 
+  it('answers each file on its own when uploads follow one another (the shared buffer of one serves the next)', async () => {
+    // A long take, then a shorter one that fits in its buffer, then a longer one than any before: each answer
+    // is the engine's for that file alone, nothing left over from the one before.
+    const takes = [
+      makeSurfaceWav({ seconds: 9, sampleRate: 22_050, levelDbfs: -40, swellDepth: 0.1, rpm: 160, seed: 21 }),
+      makeSurfaceWav({ seconds: 4, sampleRate: 22_050, levelDbfs: -62, swellDepth: 0.3, rpm: 160, seed: 22 }),
+      makeSurfaceWav({ seconds: 4, sampleRate: 22_050, levelDbfs: -55, swellDepth: 0, rpm: 160, seed: 23 }),
+      makeSurfaceWav({ seconds: 12, sampleRate: 22_050, levelDbfs: -48, swellDepth: 0.05, rpm: 160, seed: 24 }),
+    ]
+    for (const [index, bytes] of takes.entries()) {
+      const answer = await analyse({ name: `take-${index}.wav`, bytes }, { rpm: '160' })
+      expect(answer.status).toBe(200)
+      expect(answer.body).toEqual(JSON.parse(JSON.stringify(analyseSurfaceWav(bytes, { rpm: 160 }))))
+    }
+  })
+
   it('refuses what it cannot read with the right 4xx and a message', async () => {
     const jpeg = await sharp({ create: { width: 8, height: 8, channels: 3, background: { r: 1, g: 2, b: 3 } } }).jpeg().toBuffer()
     const asJpeg = await analyse({ name: 'take.wav', bytes: jpeg })

@@ -11,6 +11,8 @@ export default defineEventHandler(async (event) => {
   // The body streams in while the role and the shop's limits are looked up.
   const upload = await readUploadFormDuring(event, 'surface_test', Promise.all([requireRole(event, 'maker'), getSetting('surface')]), { required: 'choose the WAV file of the play-through' })
   const [, thresholds] = upload.checked
+  // Nothing of the file is kept: its buffer can take the next upload once this answer is out.
+  reuseUploadAfterAnswer(event, upload.file)
   const { format, ...fields } = upload.fields
   const { rpm } = surfaceFieldsWith(fields, surfaceAnalyseFieldsSchema)
   const { format: cylinder } = surfaceFieldsWith({ format: format ?? '' }, formatFieldSchema)
