@@ -112,4 +112,17 @@ describe('guides', () => {
     expect(sitemap.status).toBe(200)
     for (const path of ['/guides</loc>', '/guides/care</loc>', '/guides/workshop-safety</loc>', '/custom</loc>']) expect(String(sitemap.body)).toContain(path)
   })
+
+  it('robots.txt names the sitemap by the shop\'s address and keeps crawlers out of the private pages', async () => {
+    const robots = await visitor.request<string>('/robots.txt')
+    expect(robots.status).toBe(200)
+    expect(robots.headers.get('content-type')).toMatch(/^text\/plain/)
+    const lines = String(robots.body).split('\n')
+    // The format: one record for every crawler, a Disallow line per path prefix (RFC 9309, 2.2).
+    expect(lines[0]).toBe('User-agent: *')
+    for (const path of ['/workshop', '/dispatch', '/account', '/orders', '/cart', '/api/']) expect(lines).toContain(`Disallow: ${path}`)
+    expect(lines).not.toContain('Disallow: /')
+    expect(lines).not.toContain('Disallow: /cylinders')
+    expect(lines.find(line => line.startsWith('Sitemap: '))).toMatch(/^Sitemap: http:\/\/[^/]+\/sitemap\.xml$/)
+  })
 })
