@@ -1,8 +1,9 @@
 /**
- * robots.txt: the shop's public pages may be indexed; the workshop, dispatch, accounts, orders, carts and the
- * API may not (they are behind sign-in or personal); the sitemap is named by the shop's own address.
+ * robots.txt: the shop's public pages (the cart among them) may be indexed; the workshop, dispatch, accounts,
+ * orders, certificates and the API may not (behind sign-in, or personal); the sitemap is named by the shop's
+ * own address.
  */
-const privatePaths = ['/workshop', '/dispatch', '/account', '/orders', '/cart', '/checkout', '/certificates', '/api/', '/setup', '/reset']
+const privatePaths = ['/workshop', '/dispatch', '/account', '/orders', '/checkout', '/certificates', '/api/', '/setup', '/reset']
 
 export default defineEventHandler((event) => {
   const site = String(useRuntimeConfig(event).siteUrl).replace(/\/$/, '')

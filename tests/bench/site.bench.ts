@@ -13,9 +13,9 @@
 //    `sox FILE -n stats` on the same file.
 // A report, not a test: it prints a table with each goal and whether it is met, and exits 0 either way.
 import { spawn, spawnSync } from 'node:child_process'
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { createServer } from 'node:net'
-import { tmpdir } from 'node:os'
+import { loadavg, tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { gzipSync } from 'node:zlib'
 import { fileURLToPath } from 'node:url'
@@ -104,6 +104,29 @@ async function firstLoadJs(base: string, path: string): Promise<{ gzip: number, 
   return { gzip, zod }
 }
 
+/**
+ * A short summary of each page's audit, kept in tests/bench/output/ (not committed): the scores, the timings
+ * the performance score is made of, and the opportunities Lighthouse names with what they would save.
+ */
+function writeSummary(url: string, lhr: { categories: Record<string, { score: number | null } | undefined>, audits: Record<string, { numericValue?: number, score?: number | null, title?: string, details?: unknown } | undefined>, fetchTime?: string }) {
+  const metric = (id: string) => lhr.audits[id]?.numericValue ?? null
+  const opportunities = Object.entries(lhr.audits)
+    .filter(([, audit]) => (audit?.details as { type?: string, overallSavingsMs?: number } | undefined)?.type === 'opportunity' && ((audit?.details as { overallSavingsMs?: number }).overallSavingsMs ?? 0) > 0)
+    .map(([id, audit]) => ({ id, title: audit!.title, savingsMs: (audit!.details as { overallSavingsMs: number }).overallSavingsMs }))
+  const summary = {
+    url,
+    fetchTime: lhr.fetchTime,
+    loadAverage: loadavg().map(value => Number(value.toFixed(2))),
+    scores: Object.fromEntries(Object.entries(lhr.categories).map(([id, category]) => [id, Math.round((category?.score ?? 0) * 100)])),
+    metricsMs: { fcp: metric('first-contentful-paint'), lcp: metric('largest-contentful-paint'), tbt: metric('total-blocking-time'), speedIndex: metric('speed-index'), cls: metric('cumulative-layout-shift') },
+    opportunities,
+  }
+  const folder = join(rootDir, 'tests/bench/output')
+  mkdirSync(folder, { recursive: true })
+  const name = new URL(url).pathname.replace(/^\/$/, 'home').replace(/^\//, '').replace(/\//g, '-')
+  writeFileSync(join(folder, `lighthouse-${name}.json`), `${JSON.stringify(summary, null, 2)}\n`)
+}
+
 async function lighthouseOf(url: string) {
   const { default: lighthouse } = await import('lighthouse')
   const { launch } = await import('chrome-launcher')
@@ -112,6 +135,7 @@ async function lighthouseOf(url: string) {
     const result = await lighthouse(url, { port: chrome.port, output: 'json', logLevel: 'error', onlyCategories: ['performance', 'accessibility', 'best-practices', 'seo'] })
     const lhr = result!.lhr
     const score = (id: string) => Math.round((lhr.categories[id]?.score ?? 0) * 100)
+    writeSummary(url, lhr)
     const requests = (lhr.audits['network-requests']?.details as { items?: { resourceType?: string, transferSize?: number, url: string }[] } | undefined)?.items ?? []
     const fonts = requests.filter(item => item.resourceType === 'Font')
     return {
